@@ -1,0 +1,90 @@
+/**
+ * A scenario after loading: every quantity a plain SI number, every default filled in.
+ * This is the "problem" that the solver reads; nothing downstream sees unit strings.
+ */
+
+export interface Crowbar {
+  /** diode forward drop V_D (V) */
+  drop: number;
+  /** diode on-resistance R_D (ohm), per module */
+  resistance: number;
+}
+
+/** A group of `count` identical modules fired together. Values are per module. */
+export interface ModuleGroup {
+  label: string;
+  count: number;
+  /** C (F) per module */
+  capacitance: number;
+  /** V0 (V), > 0 */
+  voltage: number;
+  /** R_esr (ohm) per module */
+  esr: number;
+  /** L_k (H) per module, > 0 */
+  inductance: number;
+  /** R_k (ohm) per module, outside the crowbar loop */
+  resistance: number;
+  /** trigger time t_k (s) */
+  trigger: number;
+  crowbar: Crowbar | null;
+  /** rated voltage reversal as a fraction of the charge voltage (checks only) */
+  ratedReversal?: number;
+}
+
+export interface Feed {
+  inductance: number;
+  resistance: number;
+}
+
+export interface Rails {
+  length: number;
+  /** L' (H/m) */
+  inductanceGradient: number;
+  /** R' (ohm/m), loop resistance of both rails per metre of travel */
+  resistanceGradient: number;
+}
+
+export interface Armature {
+  mass: number;
+  /** initial distance from the breech x0 (m) */
+  position: number;
+  resistance: number;
+  contactResistance: number;
+  arcDrop: number;
+}
+
+export interface Friction {
+  coefficient: number;
+  staticCoefficient: number;
+  /** preload normal force F_N0 (N) */
+  preload: number;
+  /** k_N (N/A^2): magnetic contribution to the contact normal force */
+  magneticLoading: number;
+}
+
+export interface Drag {
+  gasDensity: number;
+  dragCoefficient: number;
+  boreArea: number;
+}
+
+export interface SolverOptions {
+  relTol: number;
+  endTime: number;
+  /** uniform waveform sample interval (s); 0 = no uniform samples (events only) */
+  sampleInterval: number;
+  /** stall current floor per module (A) */
+  currentFloor: number;
+}
+
+export interface Scenario {
+  name: string;
+  description: string;
+  bank: ModuleGroup[];
+  feed: Feed;
+  rails: Rails;
+  armature: Armature;
+  friction: Friction;
+  drag: Drag | null;
+  solver: SolverOptions;
+}

@@ -1,0 +1,117 @@
+/**
+ * The "solution" side: what a shot produces. Key names of ShotResults are the JSON output contract
+ * (model contract §5); everything is SI.
+ */
+
+export type Outcome = 'exited' | 'stalled' | 'timeout';
+
+export const LOSS_KEYS = [
+  'bank',
+  'crowbar',
+  'modules',
+  'feed',
+  'rails',
+  'armature',
+  'contacts',
+  'arc',
+  'friction',
+  'drag',
+] as const;
+export type LossKey = (typeof LOSS_KEYS)[number];
+export type Losses = Record<LossKey, number>;
+
+export interface EnergyBudget {
+  initial: number;
+  capacitors: number;
+  magnetic: number;
+  /** ½ L(x) I², the part of the magnetic energy held by the feed and rails */
+  magneticRails: number;
+  kinetic: number;
+  losses: Losses;
+  /** E0 − (E_cap + E_mag + E_kin + W_loss) */
+  residual: number;
+}
+
+export interface ModuleResult {
+  label: string;
+  /** peak current of one module of the group (A) */
+  peakCurrent: number;
+  /** most negative V_k / V0_k as a positive fraction, 0 if none */
+  reversal: number;
+}
+
+export interface ShotResults {
+  outcome: Outcome;
+  muzzleVelocity: number;
+  exitTime: number | null;
+  finalPosition: number;
+  peakCurrent: number;
+  peakCurrentTime: number;
+  peakAcceleration: number;
+  peakBreechVoltage: number;
+  actionIntegral: number;
+  efficiency: number;
+  energy: EnergyBudget;
+  modules: ModuleResult[];
+}
+
+export type EventKind =
+  | 'trigger'
+  | 'turn-on'
+  | 'crowbar'
+  | 'turn-off'
+  | 'start'
+  | 'stop'
+  | 'exit'
+  | 'stall'
+  | 'timeout';
+
+export interface ShotEvent {
+  t: number;
+  kind: EventKind;
+  /** bank group index for module events */
+  group?: number;
+}
+
+/**
+ * Waveforms on a uniform grid plus every event instant. Where a quantity jumps at an event instant
+ * two samples share the same t (left and right limits).
+ */
+export interface Waveforms {
+  t: number[];
+  current: number[];
+  /** [group][sample] total current of the group (all its modules) */
+  groupCurrent: number[][];
+  /** [group][sample] capacitor voltage */
+  groupVoltage: number[][];
+  breechVoltage: number[];
+  muzzleVoltage: number[];
+  position: number[];
+  velocity: number[];
+  acceleration: number[];
+  force: number[];
+  energy: {
+    capacitors: number[];
+    magnetic: number[];
+    kinetic: number[];
+    losses: Record<LossKey, number[]>;
+    residual: number[];
+  };
+}
+
+export interface SolverStats {
+  steps: number;
+  rhsEvaluations: number;
+  restarts: number;
+  relTol: number;
+}
+
+export interface Shot {
+  results: ShotResults;
+  /** null when sampling was turned off (studies) */
+  waveforms: Waveforms | null;
+  events: ShotEvent[];
+  stats: SolverStats;
+  /** ∫(F_em − F_f − F_d) dt over the moving intervals (N·s); m·v must equal it (impulse identity) */
+  impulse: number;
+}
