@@ -1,3 +1,41 @@
-// Placeholder entry while the commands are wired; replaced by the real CLI.
-process.stderr.write('railpulse: no commands yet\n');
-process.exit(2);
+/**
+ * The railpulse command line: commander wiring only. Parse arguments, call the library, print, set the
+ * exit code. A user's mistake is one line on stderr and exit code 2, never a stack trace.
+ */
+import { Command, CommanderError } from 'commander';
+import { InputError } from '../scenario/errors.js';
+import { registerRun } from './run.js';
+import { TOOL_VERSION } from '../version.js';
+
+function main(argv: string[]): void {
+  const program = new Command();
+  program
+    .name('railpulse')
+    .description('Shot simulator for electromagnetic rail accelerators: bank, rails, armature, energy ledger, shot records.')
+    .version(TOOL_VERSION, '-v, --version')
+    .showHelpAfterError()
+    .exitOverride();
+  registerRun(program);
+  try {
+    program.parse(argv);
+  } catch (error) {
+    handle(error);
+  }
+}
+
+export function handle(error: unknown): never {
+  if (error instanceof CommanderError) {
+    process.exit(error.exitCode === 0 ? 0 : 2);
+  }
+  if (error instanceof InputError) {
+    process.stderr.write(`railpulse: ${error.line()}\n`);
+    process.exit(2);
+  }
+  const message = error instanceof Error ? error.message : String(error);
+  process.stderr.write(`railpulse: internal error: ${message}\n`);
+  if (process.env.RAILPULSE_DEBUG && error instanceof Error) process.stderr.write(`${error.stack}\n`);
+  process.exit(1);
+}
+
+process.on('uncaughtException', handle);
+main(process.argv);
