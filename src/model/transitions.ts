@@ -36,8 +36,7 @@ export function applyEvent(plant: Plant, y: number[], mode: Mode, spec: EventSpe
       y[ix.velocity] = 0;
       break;
     case 'exit':
-      y[ix.position] = plant.railLength;
-      break;
+      break; // x is left as located (within the root tolerance of the rail length), not forced
     case 'floor':
       return; // only prompts the stall test
   }

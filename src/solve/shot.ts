@@ -30,8 +30,9 @@ export interface RunOptions {
 /** Points per accepted step at which event functions and peak derivatives are sampled before bracketing. */
 const SAMPLES_PER_STEP = 4;
 /** Work bounds: a shot that needs more than this is reported as an integration failure, never a hang. */
-const MAX_STEPS_PER_PHASE = 200_000;
 const MAX_EVENTS = 10_000;
+/** Step cap in units of the fastest loop time constant (see fastestDecay). */
+const STEP_CAP_DECAYS = 4;
 
 /** An integration that could not complete, with the time and state where it stopped. */
 export class IntegrationError extends InputError {
@@ -48,6 +49,22 @@ function timeScale(plant: Plant): number {
     scale = Math.min(scale, quarter);
   }
   return scale;
+}
+
+/**
+ * Time constant bounding the fastest damped mode: the smallest L/R of a module's loop through the feed and
+ * armature. odex is explicit; near its stability limit on such a mode, steps are accepted but the dense output
+ * between them degrades, so steps are capped at a few of these.
+ */
+function fastestDecay(plant: Plant): number {
+  const external = plant.feedResistance + plant.armatureResistance + plant.contactResistance + plant.resistanceGradient * plant.railLength;
+  let fastest = Infinity;
+  for (let g = 0; g < plant.groups; g++) {
+    const resistance = Math.max(plant.esr[g]!, plant.diodeResistance[g]!) + plant.seriesResistance[g]! + external;
+    const inductance = plant.inductance[g]! + plant.feedInductance;
+    if (resistance > 0) fastest = Math.min(fastest, inductance / resistance);
+  }
+  return fastest;
 }
 
 /** Absolute tolerances per component: relTol times a scale that bounds each quantity. */
@@ -90,7 +107,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   solver.denseOutput = true;
   solver.relativeTolerance = relTol;
   solver.absoluteTolerance = absoluteTolerances(plant, relTol, scale);
-  solver.maxSteps = MAX_STEPS_PER_PHASE;
+  const stepBudget = scenario.solver.maxSteps;
+  solver.maxStepSize = (STEP_CAP_DECAYS * fastestDecay(plant)) / scale;
 
   let t = 0;
   let y = initialState(plant);
@@ -107,6 +125,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   let restarts = 0;
   let nextSample = sampleInterval > 0 ? sampleInterval : Infinity;
   let lastStep = 1e-4;
+  /** time and state of the last accepted step, for the message of a failed integration */
+  let reached = { t: 0, y: [] as number[] };
 
   /** Count and record the state at an event instant; called on both sides of every event. */
   const instant = () => {
@@ -120,8 +140,11 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   instant();
   let outcome: Outcome | null = isStalled(plant, y, mode) ? 'stalled' : null;
 
+  /** events that fired at the current instant: not to fire again at the restart point */
+  let justFired = new Set<string>();
+  let locatedCount = 0;
   while (outcome === null) {
-    if (events.length > MAX_EVENTS) {
+    if (locatedCount > MAX_EVENTS) {
       throw new IntegrationError(`more than ${MAX_EVENTS} events by t = ${t} s; the shot does not settle`);
     }
     const specs = watchedEvents(plant, mode);
@@ -132,7 +155,13 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     };
     let located: Located | null = null;
     let previous = y.slice();
-    let previousValues = specs.map((s) => s.value(t, previous));
+    // A function that has just crossed sits at ~0 at the restart; count it as on its far side so rounding
+    // cannot make it fire again at the same instant.
+    let previousValues = specs.map((spec) => {
+      const value = spec.value(t, previous);
+      if (!justFired.has(eventKey(spec))) return value;
+      return spec.direction === 'down' ? Math.min(value, 0) : Math.max(value, Number.MIN_VALUE);
+    });
 
     const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], dense?: Dense): boolean => {
       if (!dense) return true;
@@ -189,6 +218,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       if (located) return false;
       lastStep = tau - tauOld;
       previous = yEnd.slice();
+      reached = { t: tNew, y: previous };
       previousValues = values;
       return true;
     };
@@ -202,13 +232,15 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       }
     };
 
+    reached = { t, y };
+    solver.maxSteps = Math.max(1, stepBudget - steps);
     solver.initialStepSize = Math.max(lastStep, 1e-4);
     const result = solver.solve(rhs, t / scale, y, endTime / scale, observer);
     evaluations += result.nEval;
     restarts++;
     if (result.outcome === OUTCOME_MAX_STEPS) {
       throw new IntegrationError(
-        `no convergence after ${MAX_STEPS_PER_PHASE} steps at t = ${t} s (I = ${observe(plant, y, mode).current} A, x = ${y[ix.position]} m)`,
+        `integration stopped after ${stepBudget} steps (solver.maxSteps) at t = ${reached.t} s with I = ${observe(plant, reached.y, mode).current} A, x = ${reached.y[ix.position]} m, v = ${reached.y[ix.velocity]} m/s`,
       );
     }
     if (!located) {
@@ -219,6 +251,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       break;
     }
     const found = located as Located;
+    locatedCount++;
+    justFired = new Set(found.specs.map(eventKey));
     t = found.time;
     y = found.state;
     checkFinite(y, t);
@@ -247,6 +281,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     relTol,
   });
 }
+
+const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;
 
 function checkFinite(y: number[], t: number): void {
   if (y.every(Number.isFinite)) return;
@@ -292,7 +328,8 @@ function finish(
       modules: scenario.bank.map((group, g) => ({
         label: group.label,
         peakCurrent: peaks.groupCurrent[g]! / group.count,
-        reversal: Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
+        // a crowbarred capacitor is held at 0 V from the instant it gets there: no reversal by construction
+        reversal: group.crowbar ? 0 : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
       })),
     },
     waveforms,
