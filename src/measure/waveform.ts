@@ -1,0 +1,143 @@
+/**
+ * Small numerics on sampled signals, shared by the fit and the goodness-of-fit report. Pure.
+ */
+
+/**
+ * Linear interpolation of (t, y) at increasing query times. The model's waveforms hold two samples at an
+ * event instant (left and right limits); a query exactly there takes the right limit, and an interval of
+ * zero length is never divided by. Outside the sampled span the end values are held.
+ */
+export function interpolateSorted(t: readonly number[], y: readonly number[], queries: readonly number[]): number[] {
+  const out = new Array<number>(queries.length);
+  const last = t.length - 1;
+  let k = 0;
+  for (let q = 0; q < queries.length; q++) {
+    const tq = queries[q]!;
+    if (last < 0) {
+      out[q] = NaN;
+      continue;
+    }
+    if (tq <= t[0]!) {
+      out[q] = tq < t[0]! ? y[0]! : y[rightmostAt(t, 0)]!;
+      continue;
+    }
+    if (tq >= t[last]!) {
+      out[q] = y[last]!;
+      continue;
+    }
+    if (t[k]! > tq) k = 0; // a query earlier than the previous one: restart the scan
+    while (t[k + 1]! <= tq) k++; // ends with t[k] ≤ tq < t[k+1]: k is the last sample at t[k]
+    const t0 = t[k]!;
+    const t1 = t[k + 1]!;
+    out[q] = y[k]! + ((y[k + 1]! - y[k]!) * (tq - t0)) / (t1 - t0);
+  }
+  return out;
+}
+
+function rightmostAt(t: readonly number[], index: number): number {
+  let k = index;
+  while (k + 1 < t.length && t[k + 1] === t[index]) k++;
+  return k;
+}
+
+/**
+ * Noise σ of a densely sampled smooth signal: the median absolute deviation of its second differences,
+ * scaled to a standard deviation. Second differences of white noise have variance 6σ², and for a normal
+ * distribution σ = MAD / 0.6745 (robust scale estimate, e.g. Hampel 1974). Second rather than first
+ * differences because the slope of a fast current pulse inflates first differences; the median ignores the
+ * few samples at a switching edge. Assumes white (sample-to-sample independent) noise: a scope's bandwidth
+ * limit correlates neighbouring samples and makes this an underestimate.
+ */
+export function estimateNoise(y: readonly number[]): number {
+  if (y.length < 3) return NaN;
+  const second: number[] = [];
+  for (let i = 1; i + 1 < y.length; i++) second.push(y[i + 1]! - 2 * y[i]! + y[i - 1]!);
+  const centre = median(second);
+  const mad = median(second.map((d) => Math.abs(d - centre)));
+  return mad / 0.6744897501960817 / Math.sqrt(6);
+}
+
+export function median(values: readonly number[]): number {
+  if (values.length === 0) return NaN;
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+}
+
+export interface Peak {
+  value: number;
+  time: number;
+}
+
+/**
+ * The maximum of a sampled signal, refined by a least-squares cubic through the contiguous samples within
+ * 3 % of the largest sample (at least three each side). A cubic rather than a parabola because a current
+ * pulse rises faster than it falls: a parabola's vertex leans towards the slow side (6 % of a sample
+ * interval on a series RLC pulse), the cubic's maximum does not. Falls back to the largest sample when the
+ * fit has no maximum inside the window.
+ */
+export function locatePeak(t: readonly number[], y: readonly number[]): Peak {
+  let best = 0;
+  for (let i = 1; i < y.length; i++) if (y[i]! > y[best]!) best = i;
+  const top = y[best]!;
+  const floor = top - 0.03 * Math.abs(top);
+  let from = best;
+  let to = best;
+  while (from > 0 && y[from - 1]! >= floor) from--;
+  while (to + 1 < y.length && y[to + 1]! >= floor) to++;
+  from = Math.max(0, Math.min(from, best - 3));
+  to = Math.min(y.length - 1, Math.max(to, best + 3));
+  const sample = { value: top, time: t[best]! };
+  if (to - from < 4) return sample;
+  // centred, scaled abscissa keeps the 4×4 normal equations well conditioned
+  const centre = t[best]!;
+  const width = Math.max(t[to]! - centre, centre - t[from]!);
+  const normal = Array.from({ length: 4 }, () => new Array<number>(4).fill(0));
+  const rhs = new Array<number>(4).fill(0);
+  for (let i = from; i <= to; i++) {
+    const u = (t[i]! - centre) / width;
+    for (let r = 0; r < 4; r++) {
+      rhs[r]! += y[i]! * u ** r;
+      for (let c = 0; c < 4; c++) normal[r]![c]! += u ** (r + c);
+    }
+  }
+  const [a, b, c, d] = solveSmall(normal, rhs) as [number, number, number, number];
+  const lo = (t[from]! - centre) / width;
+  const hi = (t[to]! - centre) / width;
+  // maximum: a root of b + 2cu + 3du² with negative second derivative 2c + 6du
+  const roots = d === 0 ? [-b / (2 * c)] : quadraticRoots(3 * d, 2 * c, b);
+  const value = (u: number): number => a + u * (b + u * (c + u * d));
+  const candidates = roots.filter((u) => u >= lo && u <= hi && 2 * c + 6 * d * u < 0);
+  if (candidates.length === 0) return sample;
+  const u = candidates.reduce((p, q) => (value(q) > value(p) ? q : p));
+  return { value: value(u), time: centre + u * width };
+}
+
+function quadraticRoots(a: number, b: number, c: number): number[] {
+  const disc = b * b - 4 * a * c;
+  if (disc < 0) return [];
+  const q = -0.5 * (b + Math.sign(b || 1) * Math.sqrt(disc)); // stable form (Numerical Recipes §5.6)
+  return [q / a, q !== 0 ? c / q : 0];
+}
+
+/** Gaussian elimination with partial pivoting for the small normal equations above. */
+function solveSmall(matrix: number[][], rhs: number[]): number[] {
+  const n = rhs.length;
+  const m = matrix.map((row, i) => [...row, rhs[i]!]);
+  for (let k = 0; k < n; k++) {
+    let pivot = k;
+    for (let i = k + 1; i < n; i++) if (Math.abs(m[i]![k]!) > Math.abs(m[pivot]![k]!)) pivot = i;
+    [m[k], m[pivot]] = [m[pivot]!, m[k]!];
+    for (let i = k + 1; i < n; i++) {
+      const f = m[i]![k]! / m[k]![k]!;
+      for (let j = k; j <= n; j++) m[i]![j]! -= f * m[k]![j]!;
+    }
+  }
+  const x = new Array<number>(n).fill(0);
+  for (let i = n - 1; i >= 0; i--) {
+    let sum = m[i]![n]!;
+    for (let j = i + 1; j < n; j++) sum -= m[i]![j]! * x[j]!;
+    x[i] = sum / m[i]![i]!;
+  }
+  return x;
+}
