@@ -138,6 +138,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       endTime: q(D.time, 'end time (timeout)', { default: 0.1 }),
       sampleInterval: q(D.time, 'waveform sample interval', { default: 1e-6 }),
       currentFloor: q(D.current, 'stall current floor per module', { default: 1 }),
+      maxSteps: { kind: 'integer', default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
     },
   },
 };

@@ -154,7 +154,7 @@ function normalise(read: Record<string, unknown>): Scenario {
   const sectionDefaults = (name: string): Record<string, number> => {
     const field = SCENARIO_FIELDS[name] as SectionField;
     return Object.fromEntries(
-      Object.entries(field.fields).flatMap(([k, f]) => (f.kind === 'quantity' && f.default !== undefined ? [[k, f.default]] : [])),
+      Object.entries(field.fields).flatMap(([k, f]) => ((f.kind === 'quantity' || f.kind === 'integer') && f.default !== undefined ? [[k, f.default]] : [])),
     );
   };
   const drag = (read.drag as Record<string, number> | null | undefined) ?? null;

@@ -75,6 +75,8 @@ export interface SolverOptions {
   sampleInterval: number;
   /** stall current floor per module (A) */
   currentFloor: number;
+  /** bound on accepted integration steps for the whole shot (never a hang) */
+  maxSteps: number;
 }
 
 export interface Scenario {

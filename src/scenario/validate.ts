@@ -49,6 +49,7 @@ export function validateScenario(s: Scenario, file?: string): void {
     ['solver.endTime', solver.endTime, solver.endTime > 0 && solver.endTime <= 10, 'an end time > 0 and ≤ 10 s'],
     ['solver.sampleInterval', solver.sampleInterval, solver.sampleInterval >= 0, 'a sample interval ≥ 0 (0: events only)'],
     ['solver.currentFloor', solver.currentFloor, solver.currentFloor > 0, 'a current floor > 0'],
+    ['solver.maxSteps', solver.maxSteps, Number.isInteger(solver.maxSteps) && solver.maxSteps >= 1, 'a whole number of steps ≥ 1'],
   );
   if (drag) {
     rules.push(
