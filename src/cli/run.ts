@@ -6,6 +6,7 @@ import { shotWarnings } from '../solve/warnings.js';
 import { shotSummary } from '../output/summary.js';
 import { waveformCsv } from '../output/csv.js';
 import { writeFileExclusive } from '../output/files.js';
+import { inFile } from './errors.js';
 
 interface RunFlags {
   json?: boolean;
@@ -21,7 +22,7 @@ export function registerRun(program: Command): void {
     .option('--csv <file>', 'write the waveforms as CSV (never overwrites)')
     .action((file: string, flags: RunFlags) => {
       const loaded = loadScenarioFile(file);
-      const shot = runShot(loaded.scenario);
+      const shot = inFile(file, () => runShot(loaded.scenario));
       const warnings = shotWarnings(loaded.scenario, shot);
       if (flags.csv && shot.waveforms) writeFileExclusive(flags.csv, waveformCsv(loaded.scenario, shot.waveforms), '--csv');
       if (flags.json) {

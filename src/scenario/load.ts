@@ -10,6 +10,7 @@ import { SCENARIO_FIELDS, type Field, type SectionField } from './fields.js';
 import type { Scenario } from './types.js';
 import { validateScenario } from './validate.js';
 import { didYouMean } from './suggest.js';
+import { findJsonError } from './jsonError.js';
 
 export { validateScenario } from './validate.js';
 export { dimensionOfPath } from './fields.js';
@@ -47,15 +48,12 @@ export function parseJson(source: string, file: string): Record<string, unknown>
   let value: unknown;
   try {
     value = JSON.parse(source);
-  } catch (error) {
-    const message = (error as Error).message;
-    const at = /position (\d+)/.exec(message);
-    const position = at ? Number(at[1]) : source.length;
-    const before = source.slice(0, position).split('\n');
+  } catch {
+    const problem = findJsonError(source) ?? { offset: source.length, message: 'not valid JSON' };
+    const before = source.slice(0, problem.offset).split('\n');
     const line = before.length;
     const column = before[before.length - 1]!.length + 1;
-    const what = message.replace(/ in JSON at position \d+.*$/, '').replace(/^JSON\.parse: /, '');
-    throw new InputError(`line ${line}, column ${column}`, `malformed JSON (${what.split('\n')[0]})`, file);
+    throw new InputError(`line ${line}, column ${column}`, `malformed JSON (${problem.message})`, file);
   }
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
     throw new InputError('', 'expected a JSON object with the scenario keys (name, bank, feed, rails, armature)', file);
