@@ -1,0 +1,227 @@
+/**
+ * The self-contained HTML shot report: one file a lab can file with the shot, readable offline for
+ * years. Pure string building; the only input besides the arguments is the plotly bundle read from
+ * node_modules. Same input → same bytes (the date comes from the provenance).
+ */
+import type { Scenario } from '../scenario/types.js';
+import type { Shot, ShotResults } from '../solve/types.js';
+import type { DecimateOptions } from './decimate.js';
+import {
+  embeddedElements,
+  REPORT_FORMAT,
+  REPORT_FORMAT_VERSION,
+  type EmbeddedResultsBlock,
+  type ReportCheck,
+  type ReportProvenance,
+} from './embedded.js';
+import { escapeHtml, jsonScriptElement } from './escape.js';
+import { formatPercent, formatQuantity, formatScientific } from './format.js';
+import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
+import { energyBudgetParts, shotFigures, type PlotFigure } from './plots.js';
+import { safetySection } from './safety.js';
+import { RECORD_CSP, RECORD_CSS } from './styles.js';
+import { checksSection, eventsSection, inputsSection, modulesSection, provenanceSection } from './tables.js';
+import { shotWarnings } from './warnings.js';
+
+export { readEmbedded, type EmbeddedReport, type ReportCheck, type ReportProvenance } from './embedded.js';
+
+export interface ShotReportInput {
+  /** the scenario JSON as the user wrote it */
+  scenarioRaw: unknown;
+  /** the same scenario in SI, defaults filled in */
+  scenario: Scenario;
+  shot: Shot;
+  provenance: ReportProvenance;
+  checks?: ReportCheck[];
+  /** warnings computed by the caller; shown with those that follow from the results (duplicates once) */
+  warnings: string[];
+  /** waveform decimation for the plots (default: about 3,000 points a plot, at most 4,000) */
+  decimate?: DecimateOptions;
+}
+
+/** Standard acceleration of gravity, g_n = 9.80665 m/s² [published: 3rd CGPM (1901), SI Brochure]. */
+export const STANDARD_GRAVITY = 9.80665;
+
+const OUTCOME_TEXT: Record<ShotResults['outcome'], string> = {
+  exited: 'left the muzzle',
+  stalled: 'stalled in the bore',
+  timeout: 'end time reached in the bore',
+};
+
+interface KeyFigure {
+  key: string;
+  label: string;
+  si: number | null;
+  text: string;
+  aside?: string;
+}
+
+function keyFigures(results: ShotResults): KeyFigure[] {
+  const e = results.energy;
+  const moduleShare = e.magnetic - e.magneticRails;
+  const exited = results.outcome === 'exited';
+  return [
+    {
+      key: 'muzzleVelocity',
+      label: exited ? 'Muzzle velocity' : 'Final velocity (no exit)',
+      si: results.muzzleVelocity,
+      text: formatQuantity(results.muzzleVelocity, 'm/s', { prefix: false }),
+    },
+    {
+      key: 'exitTime',
+      label: 'Exit time',
+      si: results.exitTime,
+      text: results.exitTime === null ? 'no exit' : formatQuantity(results.exitTime, 's'),
+      aside: `final position ${formatQuantity(results.finalPosition, 'm')}`,
+    },
+    { key: 'efficiency', label: 'Efficiency (kinetic / stored)', si: results.efficiency, text: formatPercent(results.efficiency) },
+    { key: 'energy.kinetic', label: exited ? 'Kinetic energy at exit' : 'Kinetic energy at the end', si: e.kinetic, text: formatQuantity(e.kinetic, 'J') },
+    {
+      key: 'peakCurrent',
+      label: 'Peak current',
+      si: results.peakCurrent,
+      text: formatQuantity(results.peakCurrent, 'A'),
+      aside: `at <span data-figure="peakCurrentTime" data-si="${results.peakCurrentTime}">${formatQuantity(results.peakCurrentTime, 's')}</span>`,
+    },
+    {
+      key: 'peakAcceleration',
+      label: 'Peak acceleration',
+      si: results.peakAcceleration,
+      text: formatScientific(results.peakAcceleration, 'm/s\u00B2'),
+      aside: `${formatQuantity(results.peakAcceleration / STANDARD_GRAVITY, 'g', { prefix: false })} (g\u2099 = 9.80665 m/s\u00B2)`,
+    },
+    { key: 'peakBreechVoltage', label: 'Peak breech voltage', si: results.peakBreechVoltage, text: formatQuantity(results.peakBreechVoltage, 'V') },
+    { key: 'actionIntegral', label: 'Action integral \u222BI\u00B2dt', si: results.actionIntegral, text: formatScientific(results.actionIntegral, 'A\u00B2\u00B7s') },
+    { key: 'energy.initial', label: 'Stored energy E0', si: e.initial, text: formatQuantity(e.initial, 'J') },
+    {
+      key: 'energy.magneticRails',
+      label: exited ? 'Muzzle arc must absorb' : 'Magnetic energy, feed and rails',
+      si: e.magneticRails,
+      text: formatQuantity(e.magneticRails, 'J'),
+      aside:
+        `½L(x)I² in feed and rails, plus up to <span data-figure="moduleInductorEnergy" data-si="${moduleShare}">${formatQuantity(moduleShare, 'J')}</span>` +
+        ' from the module inductors (an upper bound: the module resistances take part of it)',
+    },
+  ];
+}
+
+function figuresSection(results: ShotResults): string {
+  const items = keyFigures(results)
+    .map((f) => {
+      const si = f.si === null ? '' : ` data-si="${f.si}"`;
+      const aside = f.aside ? `<span class="aside">${f.aside}</span>` : '';
+      return `<div class="figure"><dt>${escapeHtml(f.label)}</dt><dd><span class="value" data-figure="${f.key}"${si}>${f.text}</span>${aside}</dd></div>`;
+    })
+    .join('\n');
+  return `<section id="key-figures" aria-label="Key figures"><dl class="figures">\n${items}\n</dl></section>`;
+}
+
+function headerSection(scenario: Scenario, results: ShotResults, provenance: ReportProvenance): string {
+  const outcome = results.outcome;
+  return `<header>
+<p class="kicker">railpulse \u00B7 shot record (simulation)</p>
+<h1 id="scenario-name">${escapeHtml(scenario.name)}</h1>
+${scenario.description ? `<p class="description" id="scenario-description">${escapeHtml(scenario.description)}</p>` : ''}
+<p>Outcome: <span class="outcome outcome-${escapeHtml(outcome)}" data-figure="outcome" data-value="${escapeHtml(outcome)}">${escapeHtml(OUTCOME_TEXT[outcome] ?? outcome)}</span></p>
+<div class="meta"><span><b>Date</b> <span data-date>${escapeHtml(provenance.date)}</span></span>
+<span><b>Scenario SHA-256</b> <code>${escapeHtml(provenance.scenarioSha256.slice(0, 16))}</code></span>
+<span><b>Tool</b> railpulse ${escapeHtml(provenance.toolVersion)}</span>
+<span><b>Bank</b> ${scenario.bank.length} group${scenario.bank.length === 1 ? '' : 's'}, ${scenario.bank.reduce((n, g) => n + g.count, 0)} modules</span></div>
+</header>`;
+}
+
+function warningsSection(warnings: string[]): string {
+  if (warnings.length === 0) {
+    return '<section id="warnings" class="no-warnings" data-warnings="0">No warnings: the armature left the muzzle, no capacitor reversed beyond its rating, and the energy ledger closes.</section>';
+  }
+  const items = warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('\n');
+  return `<section id="warnings" class="warnings" role="alert" data-warnings="${warnings.length}"><h2>Warnings (${warnings.length})</h2><ul>\n${items}\n</ul></section>`;
+}
+
+function budgetTable(results: ShotResults): string {
+  const initial = results.energy.initial;
+  const rows = energyBudgetParts(results)
+    .map(
+      (p) =>
+        `<tr data-budget="${escapeHtml(p.key)}"><td>${escapeHtml(p.label)}</td><td class="num">${formatQuantity(p.energy, 'J')}</td><td class="num">${formatPercent(p.energy / initial)}</td></tr>`,
+    )
+    .join('\n');
+  return `<table class="budget"><thead><tr><th>Where the stored energy is at the end of the in-bore phase</th><th class="num">Energy</th><th class="num">Share of E0</th></tr></thead>
+<tbody>${rows}</tbody><tfoot><tr><th>Total = stored energy E0</th><th class="num">${formatQuantity(initial, 'J')}</th><th class="num">100\u00A0%</th></tr></tfoot></table>
+<p class="note">The module-inductor energy is shared between the muzzle arc and the module resistances, so the arc energy lies between the feed-and-rails part and the sum of both magnetic parts.</p>`;
+}
+
+function plotsSection(figures: PlotFigure[], results: ShotResults, hasWaveforms: boolean): string {
+  const blocks = figures
+    .map((f) => {
+      const extra = f.id === 'plot-budget' ? budgetTable(results) : '';
+      return `<div class="plot-block"><h3>${escapeHtml(f.title)}</h3><p class="caption">${escapeHtml(f.caption)}</p><div class="plot" id="${f.id}" data-plot></div>${extra}</div>`;
+    })
+    .join('\n');
+  const note = hasWaveforms ? '' : '<p class="note">Waveforms were not sampled for this shot; only the end-of-bore budget is shown.</p>';
+  return `<section id="plots"><h2>Waveforms and energy</h2>${note}\n${blocks}\n</section>`;
+}
+
+/** Draw every figure; mark the body when all are drawn (tests and printing wait for it). */
+const RENDER_SCRIPT = `(function () {
+  var figures = JSON.parse(document.getElementById('railpulse-plots').textContent);
+  var config = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ['select2d', 'lasso2d'],
+    toImageButtonOptions: { format: 'png', scale: 2 } };
+  var drawn = figures.map(function (f) { return Plotly.newPlot(f.id, f.data, f.layout, config); });
+  Promise.all(drawn).then(function () { document.body.setAttribute('data-plots', 'rendered'); },
+    function (error) { document.body.setAttribute('data-plots', 'failed'); console.error(error); });
+  // Paper is narrower than a screen: fit the plots to the printed page, and back afterwards.
+  function resizeAll() { figures.forEach(function (f) { Plotly.Plots.resize(document.getElementById(f.id)); }); }
+  window.addEventListener('beforeprint', resizeAll);
+  window.addEventListener('afterprint', resizeAll);
+})();`
+
+export function buildShotReport(input: ShotReportInput): string {
+  const { scenario, shot, provenance } = input;
+  const results = shot.results;
+  const derived = shotWarnings(results, scenario);
+  const warnings = [...new Set([...derived, ...input.warnings])];
+  const figures = shotFigures(scenario, results, shot.waveforms, input.decimate);
+  const block: EmbeddedResultsBlock = {
+    format: REPORT_FORMAT,
+    formatVersion: REPORT_FORMAT_VERSION,
+    scenarioName: scenario.name,
+    scenarioDescription: scenario.description,
+    results,
+    provenance,
+    warnings,
+    checks: input.checks ?? [],
+  };
+  const plotData = figures.map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="${RECORD_CSP}">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<meta name="generator" content="railpulse ${escapeHtml(provenance.toolVersion)}">
+<title>${escapeHtml(scenario.name)} \u2014 railpulse shot record</title>
+<style>${RECORD_CSS}</style>
+${embeddedElements(block, input.scenarioRaw)}
+</head>
+<body data-plots="pending">
+<main>
+${headerSection(scenario, results, provenance)}
+${warningsSection(warnings)}
+${figuresSection(results)}
+${safetySection(scenario)}
+${plotsSection(figures, results, shot.waveforms !== null)}
+${modulesSection(scenario, results)}
+${eventsSection(shot.events, results)}
+${checksSection(input.checks)}
+${inputsSection(input.scenarioRaw, scenario)}
+${provenanceSection(provenance, PLOTLY_PACKAGE)}
+<footer>Simulation record produced by railpulse ${escapeHtml(provenance.toolVersion)} from the scenario embedded in this file. Model results, not measurements. Plots by plotly.js (MIT licence), inlined.</footer>
+</main>
+${jsonScriptElement('railpulse-plots', plotData)}
+<script>${plotlyBundleSource()}</script>
+<script>${RENDER_SCRIPT}</script>
+</body>
+</html>
+`;
+}

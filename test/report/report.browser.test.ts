@@ -1,0 +1,121 @@
+/**
+ * The shot report in a real browser (Debian's Chromium via playwright-core), generated from a real shot
+ * of a small scenario run by the project's solver. Checks that every plot renders, that the page makes
+ * no request of any kind, and that the figures a reader sees equal the embedded results.
+ */
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { buildShotReport } from '../../src/report/html.js';
+import type { ShotResults } from '../../src/solve/types.js';
+import { writeNewFile } from '../../src/report/write.js';
+import { launchBrowser, watchPage, type BrowserSession, type PageLog } from './browser.js';
+import { parseShownFigure } from './figure-text.js';
+import { benchShot } from './fixtures/bench-scenario.js';
+import { fixedProvenance } from './report-input.js';
+
+const RENDER_TIMEOUT = 120_000;
+const BASE_UNIT: Record<string, string> = {
+  muzzleVelocity: 'm/s',
+  exitTime: 's',
+  efficiency: '%',
+  peakCurrent: 'A',
+  peakCurrentTime: 's',
+  peakAcceleration: 'm/s\u00B2',
+  peakBreechVoltage: 'V',
+  actionIntegral: 'A\u00B2\u00B7s',
+  'energy.initial': 'J',
+  'energy.kinetic': 'J',
+  'energy.magneticRails': 'J',
+  moduleInductorEnergy: 'J',
+  storedEnergy: 'J',
+  maxChargeVoltage: 'V',
+};
+
+function expectedSi(results: ShotResults, key: string): number | undefined {
+  switch (key) {
+    case 'moduleInductorEnergy':
+      return results.energy.magnetic - results.energy.magneticRails;
+    case 'storedEnergy':
+      return results.energy.initial;
+    case 'maxChargeVoltage':
+      return undefined; // a scenario figure, checked in the unit tests
+    default:
+      return key.split('.').reduce<unknown>((o, k) => (o as Record<string, unknown>)[k], results) as number;
+  }
+}
+
+let session: BrowserSession;
+let dir: string;
+let page: Page;
+let log: PageLog;
+let fileUrl: string;
+
+beforeAll(async () => {
+  const { scenarioRaw, scenario, shot } = benchShot();
+  const html = buildShotReport({ scenarioRaw, scenario, shot, provenance: fixedProvenance(), warnings: [] });
+  dir = mkdtempSync(join(tmpdir(), 'railpulse-report-'));
+  fileUrl = pathToFileURL(writeNewFile(dir, 'bench-shot', 'html', html)).href;
+  session = await launchBrowser();
+  page = await session.context.newPage();
+  log = watchPage(page);
+  await page.goto(fileUrl);
+  await page.waitForSelector('body[data-plots="rendered"]', { timeout: RENDER_TIMEOUT });
+}, RENDER_TIMEOUT + 60_000);
+
+afterAll(async () => {
+  await session?.close();
+  if (dir) rmSync(dir, { recursive: true, force: true });
+});
+
+describe('shot report in Chromium', () => {
+  it('renders every plot', async () => {
+    const plotDivs = await page.locator('[data-plot]').count();
+    expect(plotDivs).toBe(6);
+    expect(await page.locator('[data-plot].js-plotly-plot').count()).toBe(plotDivs);
+    expect(await page.locator('[data-plot] .main-svg').count()).toBeGreaterThanOrEqual(plotDivs);
+    const axisTitles = await page.locator('[data-plot] .xtitle').allTextContents();
+    expect(axisTitles.filter((t) => /^Time \((m|µ)s\)$/.test(t)).length).toBe(5);
+  });
+
+  it('logs no error and requests nothing but the file itself (and data: URLs)', () => {
+    expect(log.pageErrors).toEqual([]);
+    expect(log.consoleErrors).toEqual([]);
+    expect(log.requests.filter((url) => url !== fileUrl && !url.startsWith('data:'))).toEqual([]);
+  });
+
+  it('shows key figures equal to the embedded results JSON', async () => {
+    // read the embedded JSON as the page holds it, not from the HTML we generated
+    const embedded = JSON.parse((await page.locator('#railpulse-results').textContent()) ?? 'null') as { results: ShotResults };
+    const results = embedded.results;
+    const figures = await page.locator('[data-figure][data-si]').evaluateAll((elements) =>
+      elements.map((e) => ({ key: e.getAttribute('data-figure')!, si: Number(e.getAttribute('data-si')), text: e.textContent! })),
+    );
+    expect(figures.length).toBeGreaterThanOrEqual(12);
+    for (const figure of figures) {
+      const expected = expectedSi(results, figure.key);
+      if (expected !== undefined) expect(figure.si, figure.key).toBeCloseTo(expected, 9);
+      const unit = BASE_UNIT[figure.key];
+      expect(unit, `unit of ${figure.key}`).toBeDefined();
+      const shown = parseShownFigure(figure.text, unit!);
+      // 4 significant figures are shown
+      expect(Math.abs(shown - figure.si), `${figure.key}: "${figure.text}"`).toBeLessThanOrEqual(Math.abs(figure.si) * 5.01e-4);
+    }
+    expect(await page.locator('[data-figure="outcome"]').getAttribute('data-value')).toBe(results.outcome);
+  });
+
+  it('shows the safety block and the warnings block', async () => {
+    await expect(page.locator('#safety').isVisible()).resolves.toBe(true);
+    expect(await page.locator('#safety').textContent()).toMatch(/lethal energy[\s\S]*grounding stick[\s\S]*not a licence/);
+    // the booster group has no crowbar and reverses: a warning a reader cannot miss
+    expect(await page.locator('#warnings li').allTextContents()).toEqual([expect.stringMatching(/voltage reversal in "booster"/)]);
+  });
+
+  it('saves a screenshot for a person to look at', async () => {
+    mkdirSync('test-output', { recursive: true });
+    await page.screenshot({ path: 'test-output/report-bench-shot.png', fullPage: true });
+  });
+});
