@@ -5,6 +5,7 @@
 import { Command, CommanderError } from 'commander';
 import { InputError } from '../scenario/errors.js';
 import { registerRun } from './run.js';
+import { registerIndex } from './archive.js';
 import { TOOL_VERSION } from '../version.js';
 
 function main(argv: string[]): void {
@@ -16,6 +17,7 @@ function main(argv: string[]): void {
     .showHelpAfterError()
     .exitOverride();
   registerRun(program);
+  registerIndex(program);
   try {
     program.parse(argv);
   } catch (error) {

@@ -18,10 +18,10 @@ import { escapeHtml, jsonScriptElement } from './escape.js';
 import { formatPercent, formatQuantity, formatScientific } from './format.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
 import { energyBudgetParts, shotFigures, type PlotFigure } from './plots.js';
+import { overlayElement, overlayFigures, overlaySection, type OverlayInput } from './overlay.js';
 import { safetySection } from './safety.js';
 import { RECORD_CSP, RECORD_CSS } from './styles.js';
 import { checksSection, eventsSection, inputsSection, modulesSection, provenanceSection } from './tables.js';
-import { shotWarnings } from './warnings.js';
 
 export { readEmbedded, type EmbeddedReport, type ReportCheck, type ReportProvenance } from './embedded.js';
 
@@ -33,10 +33,12 @@ export interface ShotReportInput {
   shot: Shot;
   provenance: ReportProvenance;
   checks?: ReportCheck[];
-  /** warnings computed by the caller; shown with those that follow from the results (duplicates once) */
+  /** the shot's warnings (src/solve/warnings.ts) and any the caller adds; each shown once */
   warnings: string[];
   /** waveform decimation for the plots (default: about 3,000 points a plot, at most 4,000) */
   decimate?: DecimateOptions;
+  /** measured traces to draw over the simulated ones, with goodness of fit (and a calibration) */
+  overlay?: OverlayInput;
 }
 
 /** Standard acceleration of gravity, g_n = 9.80665 m/s² [published: 3rd CGPM (1901), SI Brochure]. */
@@ -179,8 +181,7 @@ const RENDER_SCRIPT = `(function () {
 export function buildShotReport(input: ShotReportInput): string {
   const { scenario, shot, provenance } = input;
   const results = shot.results;
-  const derived = shotWarnings(results, scenario);
-  const warnings = [...new Set([...derived, ...input.warnings])];
+  const warnings = [...new Set(input.warnings)];
   const figures = shotFigures(scenario, results, shot.waveforms, input.decimate);
   const block: EmbeddedResultsBlock = {
     format: REPORT_FORMAT,
@@ -192,7 +193,8 @@ export function buildShotReport(input: ShotReportInput): string {
     warnings,
     checks: input.checks ?? [],
   };
-  const plotData = figures.map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
+  const overlayPlots = input.overlay ? overlayFigures(shot.waveforms, input.overlay, input.decimate) : [];
+  const plotData = [...overlayPlots, ...figures].map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -202,13 +204,14 @@ export function buildShotReport(input: ShotReportInput): string {
 <meta name="generator" content="railpulse ${escapeHtml(provenance.toolVersion)}">
 <title>${escapeHtml(scenario.name)} \u2014 railpulse shot record</title>
 <style>${RECORD_CSS}</style>
-${embeddedElements(block, input.scenarioRaw)}
+${embeddedElements(block, input.scenarioRaw)}${input.overlay ? `\n${overlayElement(input.overlay)}` : ''}
 </head>
 <body data-plots="pending">
 <main>
 ${headerSection(scenario, results, provenance)}
 ${warningsSection(warnings)}
 ${figuresSection(results)}
+${input.overlay ? overlaySection(input.overlay, overlayPlots) : ''}
 ${safetySection(scenario)}
 ${plotsSection(figures, results, shot.waveforms !== null)}
 ${modulesSection(scenario, results)}

@@ -4,8 +4,9 @@
  * final name; link() fails with EEXIST instead of replacing, so a collision picks the next free name.
  */
 import { randomBytes } from 'node:crypto';
-import { closeSync, fsyncSync, linkSync, openSync, unlinkSync, writeSync } from 'node:fs';
-import { join } from 'node:path';
+import { closeSync, existsSync, fsyncSync, linkSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { InputError } from '../scenario/errors.js';
 
 const MAX_SUFFIX = 10_000;
 
@@ -72,4 +73,32 @@ export function reportBaseName(date: string | Date, scenarioName: string, shortH
 /** The report file name: reportBaseName + ".html". */
 export function reportFileName(date: string | Date, scenarioName: string, shortHash: string): string {
   return `${reportBaseName(date, scenarioName, shortHash)}.html`;
+}
+
+/**
+ * Write `content` to exactly `path` (atomically); refuse with an InputError naming `option` if the file
+ * exists. For outputs whose name the user chose (--csv FILE, --report FILE).
+ */
+export function writeExactFile(path: string, content: string | Uint8Array, option: string): void {
+  if (!existsSync(dirname(path) || '.')) throw new InputError(option, `the folder of ${path} does not exist`);
+  const temp = writeTemporary(dirname(path), basename(path), content);
+  try {
+    linkSync(temp, path);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === 'EEXIST') {
+      throw new InputError(option, `${path} exists; railpulse never overwrites a file, choose another name`);
+    }
+    if ((error as NodeJS.ErrnoException).code === 'ENOENT') {
+      throw new InputError(option, `the folder of ${path} does not exist`);
+    }
+    throw error;
+  } finally {
+    unlinkSync(temp);
+  }
+}
+
+/** Replace `path` atomically (temporary file + rename): only for derived views such as an archive index. */
+export function replaceFile(path: string, content: string): void {
+  const temp = writeTemporary(dirname(path), basename(path), content);
+  renameSync(temp, path);
 }

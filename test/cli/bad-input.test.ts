@@ -14,7 +14,7 @@ const dir = mkdtempSync(join(tmpdir(), 'railpulse-bad-'));
 function runWith(name: string, text: string, ...extra: string[]) {
   const file = join(dir, `${name}.json`);
   writeFileSync(file, text);
-  const result = spawnSync(process.execPath, ['bin/railpulse.js', 'run', file, '--json', ...extra], { encoding: 'utf8' });
+  const result = spawnSync(process.execPath, ['bin/railpulse.js', 'run', file, '--json', '--no-report', ...extra], { encoding: 'utf8' });
   return { ...result, file };
 }
 

@@ -1,0 +1,24 @@
+/** `railpulse index [DIR]`: the archive index of the shot records in a folder. */
+import { existsSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Command } from 'commander';
+import { InputError } from '../scenario/errors.js';
+import { buildArchiveIndex, scanReports } from '../report/archive.js';
+import { replaceFile } from '../report/write.js';
+import { DEFAULT_REPORT_DIR } from './run.js';
+
+export function registerIndex(program: Command): void {
+  program
+    .command('index')
+    .description('write DIR/index.html: one sortable, filterable row per shot record in DIR')
+    .argument('[dir]', 'folder of reports', DEFAULT_REPORT_DIR)
+    .action((dir: string) => {
+      if (!existsSync(dir) || !statSync(dir).isDirectory()) throw new InputError('index', `${dir} is not a folder of reports`);
+      const scan = scanReports(dir);
+      for (const warning of scan.warnings) process.stderr.write(`railpulse: skipped ${warning}\n`);
+      const target = join(dir, 'index.html');
+      // The index is a view rebuilt from the records each time; the records themselves are never touched.
+      replaceFile(target, buildArchiveIndex(scan.entries));
+      process.stdout.write(`${target}: ${scan.entries.length} record${scan.entries.length === 1 ? '' : 's'}\n`);
+    });
+}

@@ -1,0 +1,33 @@
+/** Provenance of a shot record: which tool, which Node, which input, when. */
+import { createHash } from 'node:crypto';
+import type { Shot } from '../solve/types.js';
+import type { ReportProvenance } from '../report/embedded.js';
+import { TOOL_VERSION } from '../version.js';
+
+/** The report date: now, or SOURCE_DATE_EPOCH (seconds) for reproducible builds of a record. */
+export function reportDate(): string {
+  const epoch = process.env.SOURCE_DATE_EPOCH;
+  if (epoch && /^\d+$/.test(epoch)) return new Date(Number(epoch) * 1000).toISOString();
+  return new Date().toISOString();
+}
+
+export function provenanceOf(shot: Shot, scenarioSha256: string): ReportProvenance {
+  return {
+    toolVersion: TOOL_VERSION,
+    nodeVersion: process.version,
+    date: reportDate(),
+    scenarioSha256,
+    relTol: shot.stats.relTol,
+    steps: shot.stats.steps,
+    rhsEvaluations: shot.stats.rhsEvaluations,
+  };
+}
+
+/** Short hash of the scenario and the tool version: the same input under the same tool gets the same tag. */
+export function recordTag(scenarioSha256: string): string {
+  return createHash('sha256').update(`${scenarioSha256}\n${TOOL_VERSION}`).digest('hex').slice(0, 8);
+}
+
+export function sha256(text: string): string {
+  return createHash('sha256').update(text).digest('hex');
+}
