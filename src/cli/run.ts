@@ -17,6 +17,7 @@ import { buildShotReport } from '../report/html.js';
 import { readEmbedded, NotAReportError } from '../report/embedded.js';
 import { reportBaseName, writeExactFile, writeNewFile } from '../report/write.js';
 import { inFile } from './errors.js';
+import { railsDerivedJson, shotChecks } from '../checks/shotChecks.js';
 
 interface RunFlags {
   json?: boolean;
@@ -48,6 +49,7 @@ export function registerRun(program: Command): void {
 function simulate(loaded: LoadedScenario, flags: RunFlags): Shot {
   const shot = inFile(loaded.file, () => runShot(loaded.scenario));
   const warnings = shotWarnings(loaded.scenario, shot);
+  const checks = shotChecks(loaded.scenario, shot.results);
   if (flags.csv && shot.waveforms) writeExactFile(flags.csv, waveformCsv(loaded.scenario, shot.waveforms), '--csv');
   let reportPath: string | null = null;
   if (flags.report !== false) {
@@ -57,14 +59,17 @@ function simulate(loaded: LoadedScenario, flags: RunFlags): Shot {
       shot,
       provenance: provenanceOf(shot, loaded.sha256),
       warnings: warnings.map((w) => w.message),
+      checks,
     });
     reportPath = writeReport(html, typeof flags.report === 'string' ? flags.report : DEFAULT_REPORT_DIR, loaded);
   }
   if (flags.json) {
-    process.stdout.write(JSON.stringify(shot.results, null, 2) + '\n');
+    const railsDerived = railsDerivedJson(loaded.scenario);
+    const output = { ...shot.results, checks, ...(railsDerived ? { railsDerived } : {}) };
+    process.stdout.write(JSON.stringify(output, null, 2) + '\n');
     if (reportPath) process.stderr.write(`report: ${reportPath}\n`);
   } else {
-    process.stdout.write(shotSummary(loaded.scenario, shot, warnings));
+    process.stdout.write(shotSummary(loaded.scenario, shot, warnings, checks));
     if (reportPath) process.stdout.write(`report: ${reportPath}\n`);
   }
   return shot;

@@ -4,8 +4,16 @@ import type { Shot } from '../solve/types.js';
 import { LOSS_KEYS } from '../solve/types.js';
 import type { ShotWarning } from '../solve/warnings.js';
 import { formatPercent, formatSI, STANDARD_GRAVITY } from '../units/format.js';
+import type { Check } from '../checks/engineering.js';
 
-export function shotSummary(scenario: Scenario, shot: Shot, warnings: ShotWarning[]): string {
+function formatValue(value: number, unit: string): string {
+  if (unit === '' || unit === '1') return value.toPrecision(3);
+  if (unit === '%') return `${value.toPrecision(3)} %`;
+  if (/^[A-JL-Za-zΩ]+$/.test(unit)) return formatSI(value, unit);
+  return `${value.toPrecision(3)} ${unit}`;
+}
+
+export function shotSummary(scenario: Scenario, shot: Shot, warnings: ShotWarning[], checks: Check[] = []): string {
   const r = shot.results;
   const e = r.energy;
   const lines: string[] = [];
@@ -31,6 +39,21 @@ export function shotSummary(scenario: Scenario, shot: Shot, warnings: ShotWarnin
   row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails)}  (shared by the arc and module resistances)`);
   for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${key}`, share(e.losses[key]));
   row('  ledger residual', `${(e.residual / e.initial).toExponential(2)} of E0`);
+  const derived = scenario.rails.derived;
+  if (derived) {
+    lines.push('  rails from geometry:');
+    row("  L' high-frequency", `${(derived.inductanceGradientHighFrequency * 1e6).toFixed(4)} µH/m (field solution, est. error ${derived.estimatedRelativeError.toExponential(1)})`);
+    row("  L' uniform current", `${(derived.inductanceGradientUniform * 1e6).toFixed(4)} µH/m (geometric mean distances)`);
+    row("  L' used", `${(scenario.rails.inductanceGradient * 1e6).toFixed(4)} µH/m`);
+    row("  R' used", formatSI(scenario.rails.resistanceGradient, 'Ω/m'));
+  }
+  if (checks.length > 0) {
+    lines.push('engineering checks (advice, not certification; sources in --json and the report):');
+    for (const c of checks) {
+      const limit = c.limit === null ? '' : ` (limit ${formatValue(c.limit, c.unit)})`;
+      lines.push(`  ${c.verdict.toUpperCase().padEnd(4)} ${c.title}: ${formatValue(c.value, c.unit)}${limit}`);
+    }
+  }
   if (warnings.length > 0) {
     lines.push('warnings:');
     for (const w of warnings) lines.push(`  ! ${w.message}`);

@@ -36,7 +36,13 @@ export interface ListField {
   required?: boolean;
   description: string;
 }
-export type Field = QuantityField | IntegerField | TextField | SectionField | ListField;
+/** A value checked by its own reader (materials, limits): passed through as written. */
+export interface RawField {
+  kind: 'raw';
+  required?: boolean;
+  description: string;
+}
+export type Field = QuantityField | IntegerField | TextField | SectionField | ListField | RawField;
 
 const q = (dimension: Dimension, description: string, extra: { required?: boolean; default?: number } = {}): QuantityField => ({
   kind: 'quantity',
@@ -64,7 +70,7 @@ export const MODULE_FIELDS: Record<string, Field> = {
       resistance: q(D.resistance, 'diode on-resistance R_D of one module', { default: 0 }),
     },
   },
-  ratedReversal: q(D.dimensionless, "capacitor's rated voltage reversal as a fraction of V0 (checks)", { default: 0.2 }),
+  ratedReversal: q(D.dimensionless, "capacitor's rated voltage reversal as a fraction of V0 (checks; default limits.ratedReversal, 20 %)"),
 };
 
 export const SCENARIO_FIELDS: Record<string, Field> = {
@@ -92,8 +98,22 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     description: 'the two rails',
     fields: {
       length: q(D.length, 'rail length from the breech to the muzzle', { required: true }),
-      inductanceGradient: q(D.inductanceGradient, "inductance gradient L'", { required: true }),
-      resistanceGradient: q(D.resistanceGradient, "loop resistance of both rails per metre of travel R'", { default: 0 }),
+      inductanceGradient: q(D.inductanceGradient, "inductance gradient L' (required unless rails.geometry is given)"),
+      resistanceGradient: q(D.resistanceGradient, "loop resistance of both rails per metre of travel R' (default 0, or from geometry and material)"),
+      geometry: {
+        kind: 'section',
+        optional: true,
+        description: 'rail cross-section: { height, width, separation } for rectangular rails or { radius, centreDistance } for round rails',
+        fields: {
+          height: q(D.length, 'rail height (the face the armature slides on)'),
+          width: q(D.length, 'rail width (thickness away from the bore)'),
+          separation: q(D.length, "gap between the rails' inner faces"),
+          radius: q(D.length, 'round rail radius'),
+          centreDistance: q(D.length, 'distance between the round rails\' centres'),
+        },
+      },
+      material: { kind: 'raw', description: 'rail material: a library name (copper, copper-chromium, aluminium-6061-t6, aluminium-7075-t6, aluminium-1350) or one from "materials"' },
+      inductanceModel: { kind: 'text', description: 'which L\' from geometry the shot uses: "high-frequency" (default) or "uniform"' },
     },
   },
   armature: {
@@ -101,11 +121,22 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     required: true,
     description: 'the sliding armature',
     fields: {
-      mass: q(D.mass, 'armature (and payload) mass', { required: true }),
+      mass: q(D.mass, 'armature (and payload) mass (required unless geometry and material give it)'),
       position: q(D.length, 'initial distance from the breech', { default: 0 }),
       resistance: q(D.resistance, 'armature resistance R_a', { default: 0 }),
       contactResistance: q(D.resistance, 'total contact resistance R_c', { default: 0 }),
       arcDrop: q(D.voltage, 'arc drop V_arc (0 for a solid armature)', { default: 0 }),
+      geometry: {
+        kind: 'section',
+        optional: true,
+        description: 'solid armature block: height (current path across the bore), width (across the bore), length (along the bore)',
+        fields: {
+          height: q(D.length, 'current path length across the bore', { required: true }),
+          width: q(D.length, 'width of the conducting block', { required: true }),
+          length: q(D.length, 'length of the conducting block along the bore', { required: true }),
+        },
+      },
+      material: { kind: 'raw', description: 'armature material: a library name or one from "materials"' },
     },
   },
   friction: {
@@ -129,6 +160,8 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       boreArea: q(D.area, 'bore cross-section A_b', { required: true }),
     },
   },
+  materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
+  limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults' },
   solver: {
     kind: 'section',
     optional: true,

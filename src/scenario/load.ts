@@ -11,6 +11,7 @@ import type { Scenario } from './types.js';
 import { validateScenario } from './validate.js';
 import { didYouMean } from './suggest.js';
 import { findJsonError } from './jsonError.js';
+import { deriveFromGeometry } from './derive.js';
 
 export { validateScenario } from './validate.js';
 export { dimensionOfPath } from './fields.js';
@@ -65,6 +66,7 @@ export function parseJson(source: string, file: string): Record<string, unknown>
 export function scenarioFromRaw(raw: Record<string, unknown>, file?: string): Scenario {
   const read = readSection(raw, { kind: 'section', fields: SCENARIO_FIELDS, description: '' }, '', file) as Record<string, unknown>;
   const scenario = normalise(read);
+  deriveFromGeometry(scenario, read, raw, file);
   validateScenario(scenario, file);
   return scenario;
 }
@@ -89,6 +91,8 @@ function readField(value: unknown, field: Field, path: string, file?: string): u
       if (typeof value !== 'number' || !Number.isInteger(value)) {
         throw new InputError(path, `expected a whole number, got ${describe(value)}`, file);
       }
+      return value;
+    case 'raw':
       return value;
     case 'text':
       if (typeof value !== 'string') throw new InputError(path, `expected a text string, got ${describe(value)}`, file);
@@ -144,7 +148,7 @@ function normalise(read: Record<string, unknown>): Scenario {
     crowbar: group.crowbar
       ? { drop: (group.crowbar as Record<string, number>).drop!, resistance: (group.crowbar as Record<string, number>).resistance! }
       : null,
-    ratedReversal: group.ratedReversal as number,
+    ...(group.ratedReversal === undefined ? {} : { ratedReversal: group.ratedReversal as number }),
   }));
   const friction = (read.friction as Record<string, number> | null | undefined) ?? null;
   const coefficient = friction?.coefficient ?? 0;
@@ -161,7 +165,7 @@ function normalise(read: Record<string, unknown>): Scenario {
     description: (read.description as string | undefined) ?? '',
     bank,
     feed: read.feed as unknown as Scenario['feed'],
-    rails: read.rails as unknown as Scenario['rails'],
+    rails: { ...(read.rails as Record<string, unknown>), resistanceGradient: (read.rails as Record<string, number>).resistanceGradient ?? 0 } as unknown as Scenario['rails'],
     armature: read.armature as unknown as Scenario['armature'],
     friction: {
       coefficient,

@@ -1,3 +1,9 @@
+import type { RailGeometry } from '../checks/inductance.js';
+import type { Material } from '../checks/materials.js';
+import type { RailsDerived } from '../checks/rails.js';
+import type { ArmatureDerived, ArmatureGeometry } from '../checks/armature.js';
+import type { EngineeringLimits } from '../checks/limits.js';
+
 /**
  * A scenario after loading: every quantity a plain SI number, every default filled in.
  * This is the "problem" that the solver reads; nothing downstream sees unit strings.
@@ -42,6 +48,11 @@ export interface Rails {
   inductanceGradient: number;
   /** R' (ohm/m), loop resistance of both rails per metre of travel */
   resistanceGradient: number;
+  /** rail cross-section, when the scenario gave one */
+  geometry?: RailGeometry;
+  material?: Material;
+  /** what the geometry gave (both L' values, R'), when it was given */
+  derived?: RailsDerived;
 }
 
 export interface Armature {
@@ -51,6 +62,10 @@ export interface Armature {
   resistance: number;
   contactResistance: number;
   arcDrop: number;
+  geometry?: ArmatureGeometry;
+  material?: Material;
+  /** cross-section, volume, mass and resistance from geometry and material */
+  derived?: ArmatureDerived;
 }
 
 export interface Friction {
@@ -89,4 +104,6 @@ export interface Scenario {
   friction: Friction;
   drag: Drag | null;
   solver: SolverOptions;
+  /** engineering-check thresholds given by the scenario (the rest are defaults) */
+  limits?: Partial<EngineeringLimits>;
 }

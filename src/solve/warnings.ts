@@ -18,7 +18,7 @@ export function shotWarnings(scenario: Scenario, shot: Shot): ShotWarning[] {
   r.modules.forEach((m, g) => {
     if (m.reversal > 0) {
       const group = scenario.bank[g]!;
-      const rated = group.ratedReversal ?? 0.2;
+      const rated = group.ratedReversal ?? scenario.limits?.ratedReversal ?? 0.2;
       warnings.push({
         id: 'reversal',
         message: `${m.label}: capacitor voltage reverses to ${(m.reversal * 100).toFixed(1)} % of its ${(group.voltage / 1e3).toFixed(2)} kV charge (rated ${(rated * 100).toFixed(0)} %)${m.reversal > rated ? ' — above the rating' : ''}`,

@@ -1,0 +1,42 @@
+/**
+ * The engineering checks of one shot of one scenario: gathers what the checks need from the scenario
+ * (geometry, materials, contact model, thresholds) and the results. Used by run, reports and studies alike.
+ */
+import type { Scenario } from '../scenario/types.js';
+import type { ShotResults } from '../solve/types.js';
+import { engineeringChecks, type Check } from './engineering.js';
+
+export function shotChecks(scenario: Scenario, results: ShotResults): Check[] {
+  const solid = scenario.armature.arcDrop === 0;
+  return engineeringChecks({
+    results,
+    bank: scenario.bank,
+    rails: {
+      ...(scenario.rails.geometry ? { geometry: scenario.rails.geometry } : {}),
+      ...(scenario.rails.material ? { material: scenario.rails.material } : {}),
+      ...(scenario.rails.derived?.characteristicTime ? { characteristicTime: scenario.rails.derived.characteristicTime } : {}),
+    },
+    armature: {
+      ...(scenario.armature.derived ? { currentArea: scenario.armature.derived.currentArea } : {}),
+      ...(scenario.armature.material ? { material: scenario.armature.material } : {}),
+    },
+    ...(solid ? { contact: { preload: scenario.friction.preload, magneticLoading: scenario.friction.magneticLoading } } : {}),
+    ...(scenario.limits ? { limits: scenario.limits } : {}),
+  });
+}
+
+/** The `railsDerived` block of the JSON output, when the rails were given by geometry. */
+export function railsDerivedJson(scenario: Scenario) {
+  const derived = scenario.rails.derived;
+  if (!derived) return undefined;
+  return {
+    inductanceGradient: scenario.rails.inductanceGradient,
+    inductanceGradientHighFrequency: derived.inductanceGradientHighFrequency,
+    inductanceGradientUniform: derived.inductanceGradientUniform,
+    resistanceGradient: scenario.rails.resistanceGradient,
+    estimatedRelativeError: derived.estimatedRelativeError,
+    resistanceGradientDC: derived.resistanceGradientDC,
+    penetrationDepth: derived.penetrationDepth,
+    characteristicTime: derived.characteristicTime,
+  };
+}

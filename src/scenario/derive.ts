@@ -1,0 +1,127 @@
+/**
+ * Geometry and materials → model parameters: rail L′ (field solution) and R′ (current penetration) from the
+ * rail cross-section and material, armature resistance and mass from its block and material. A number the
+ * user gave always wins over a derived one.
+ */
+import { InputError } from './errors.js';
+import type { Scenario } from './types.js';
+import { toSI, DIMENSIONS, QuantityError } from '../units/quantity.js';
+import { railGeometryFromObject } from '../checks/inductance.js';
+import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material } from '../checks/materials.js';
+import { deriveRails } from '../checks/rails.js';
+import { deriveArmature } from '../checks/armature.js';
+import { bankCharacteristicTime } from '../checks/resistance.js';
+import { LIMIT_DIMENSIONS, validateLimits } from '../checks/limits.js';
+
+type Read = Record<string, unknown>;
+
+function section(read: Read, key: string): Read {
+  return (read[key] as Read | null | undefined) ?? {};
+}
+
+/** Material fields may carry units ("1.72e-8 ohm m", "1084.6 degC"): read them to SI first. */
+function materialInSI(raw: unknown, path: string): unknown {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
+  const out: Record<string, unknown> = { ...(raw as Record<string, unknown>) };
+  for (const key of MATERIAL_FIELDS) {
+    const value = out[key];
+    if (typeof value !== 'string') continue;
+    try {
+      out[key] = toSI(value, DIMENSIONS[MATERIAL_FIELD_DIMENSIONS[key]]);
+    } catch (error) {
+      if (error instanceof QuantityError) throw new InputError(`${path}.${key}`, error.message);
+      throw error;
+    }
+  }
+  return out;
+}
+
+function userMaterials(read: Read): Record<string, Material> {
+  const raw = read.materials;
+  if (raw === undefined) return {};
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
+    throw new InputError('materials', 'expected an object of materials by name');
+  }
+  const inSI = Object.fromEntries(Object.entries(raw as Read).map(([name, m]) => [name, materialInSI(m, `materials.${name}`)]));
+  return userMaterialsFromObject(inSI, 'materials');
+}
+
+function limitsInSI(raw: unknown): unknown {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
+  const out: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(raw as Read)) {
+    const dimension = LIMIT_DIMENSIONS[key as keyof typeof LIMIT_DIMENSIONS];
+    if (dimension && typeof value === 'string') {
+      try {
+        out[key] = toSI(value, dimension);
+      } catch (error) {
+        if (error instanceof QuantityError) throw new InputError(`limits.${key}`, error.message);
+        throw error;
+      }
+    } else out[key] = value;
+  }
+  return out;
+}
+
+export function deriveFromGeometry(scenario: Scenario, read: Read, raw: Read, file?: string): void {
+  try {
+    derive(scenario, read, raw);
+  } catch (error) {
+    if (error instanceof InputError && !error.file && file) throw new InputError(error.where, error.problem, file);
+    throw error;
+  }
+}
+
+function derive(scenario: Scenario, read: Read, raw: Read): void {
+  const materials = userMaterials(read);
+  const rails = section(read, 'rails');
+  const armature = section(read, 'armature');
+  const given = section(raw, 'armature');
+  const cleanRails = { length: scenario.rails.length, inductanceGradient: scenario.rails.inductanceGradient, resistanceGradient: scenario.rails.resistanceGradient };
+  scenario.rails = cleanRails;
+  if (rails.material !== undefined) scenario.rails.material = resolveMaterial(materialInSI(rails.material, 'rails.material'), 'rails.material', materials);
+  if (rails.geometry) {
+    const geometry = railGeometryFromObject(stripUndefined(rails.geometry as Read), 'rails.geometry');
+    const time = bankCharacteristicTime(scenario.bank, scenario.feed.inductance);
+    const derived = deriveRails(geometry, scenario.rails.material, time, 'rails');
+    const model = (rails.inductanceModel as string | undefined) ?? 'high-frequency';
+    if (model !== 'high-frequency' && model !== 'uniform') {
+      throw new InputError('rails.inductanceModel', `expected "high-frequency" or "uniform", got ${JSON.stringify(model)}`);
+    }
+    scenario.rails.geometry = geometry;
+    scenario.rails.derived = derived;
+    if (rails.inductanceGradient === undefined) {
+      scenario.rails.inductanceGradient = model === 'uniform' ? derived.inductanceGradientUniform : derived.inductanceGradientHighFrequency;
+    }
+    if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
+      scenario.rails.resistanceGradient = derived.resistanceGradient;
+    }
+  } else if (rails.inductanceModel !== undefined) {
+    throw new InputError('rails.inductanceModel', 'only applies with rails.geometry');
+  }
+  if (rails.inductanceGradient === undefined && !rails.geometry) {
+    throw new InputError('rails.inductanceGradient', 'missing required key (or give rails.geometry to compute it)');
+  }
+  const a = scenario.armature;
+  const cleanArmature = { mass: a.mass, position: a.position, resistance: a.resistance, contactResistance: a.contactResistance, arcDrop: a.arcDrop };
+  scenario.armature = cleanArmature;
+  if (armature.material !== undefined) scenario.armature.material = resolveMaterial(materialInSI(armature.material, 'armature.material'), 'armature.material', materials);
+  if (armature.geometry) {
+    const geometry = armature.geometry as { height: number; width: number; length: number };
+    scenario.armature.geometry = geometry;
+    if (scenario.armature.material) {
+      const derived = deriveArmature(geometry, scenario.armature.material, 'armature.geometry');
+      scenario.armature.derived = derived;
+      if (given.mass === undefined) scenario.armature.mass = derived.mass;
+      if (given.resistance === undefined) scenario.armature.resistance = derived.resistance;
+    }
+  }
+  if (armature.mass === undefined && scenario.armature.mass === undefined) {
+    throw new InputError('armature.mass', 'missing required key (or give armature.geometry and armature.material to compute it)');
+  }
+  if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(read.limits), 'limits');
+}
+
+function stripUndefined(object: Read): Read {
+  return Object.fromEntries(Object.entries(object).filter(([, v]) => v !== undefined));
+}
