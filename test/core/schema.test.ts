@@ -11,7 +11,10 @@ import Ajv2020 from 'ajv/dist/2020.js';
 import { readdirSync } from 'node:fs';
 
 it('every demo scenario validates against the schema with a general-purpose validator (Ajv, JSON Schema 2020-12)', () => {
-  const Ajv = (Ajv2020 as unknown as { default?: typeof Ajv2020 }).default ?? Ajv2020;
+  // ajv is CommonJS: its class is the module's default export, or the module itself, depending on the loader
+  type AjvClass = new (options: { strict: boolean }) => { compile(schema: object): ((data: unknown) => boolean) & { errors?: unknown[] | null } };
+  const module = Ajv2020 as unknown as AjvClass & { default?: AjvClass };
+  const Ajv = module.default ?? module;
   const validate = new Ajv({ strict: false }).compile(scenarioSchema());
   const demos = readdirSync('scenarios').filter((f) => f.endsWith('.json') && !f.includes('schema'));
   expect(demos.length).toBeGreaterThanOrEqual(3);
