@@ -1,3 +1,4 @@
+import { shotWarnings } from '../../src/solve/warnings.js';
 /**
  * The shot report in a real browser (Debian's Chromium via playwright-core), generated from a real shot
  * of a small scenario run by the project's solver. Checks that every plot renders, that the page makes
@@ -56,7 +57,8 @@ let fileUrl: string;
 
 beforeAll(async () => {
   const { scenarioRaw, scenario, shot } = benchShot();
-  const html = buildShotReport({ scenarioRaw, scenario, shot, provenance: fixedProvenance(), warnings: [] });
+  const warnings = shotWarnings(scenario, shot).map((w) => w.message);
+  const html = buildShotReport({ scenarioRaw, scenario, shot, provenance: fixedProvenance(), warnings });
   dir = mkdtempSync(join(tmpdir(), 'railpulse-report-'));
   fileUrl = pathToFileURL(writeNewFile(dir, 'bench-shot', 'html', html)).href;
   session = await launchBrowser();
@@ -111,7 +113,7 @@ describe('shot report in Chromium', () => {
     await expect(page.locator('#safety').isVisible()).resolves.toBe(true);
     expect(await page.locator('#safety').textContent()).toMatch(/lethal energy[\s\S]*grounding stick[\s\S]*not a licence/);
     // the booster group has no crowbar and reverses: a warning a reader cannot miss
-    expect(await page.locator('#warnings li').allTextContents()).toEqual([expect.stringMatching(/voltage reversal in "booster"/)]);
+    expect(await page.locator('#warnings li').allTextContents()).toEqual([expect.stringMatching(/booster: capacitor voltage reverses to/)]);
   });
 
   it('saves a screenshot for a person to look at', async () => {
