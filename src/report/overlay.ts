@@ -104,8 +104,9 @@ function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measu
   layout['yaxis'] = axis(`${spec.label} (${yScale.prefix}${spec.unit})`, { domain: [0.36, 1] });
   layout['yaxis2'] = axis(`residual (${rScale.prefix}${spec.unit})`, { domain: [0, 0.26] });
   const data = [
-    { type: 'scatter', mode: 'lines', name: `simulated ${name}`, x: scaleAll(pick(waveforms.t, modelIdx), time), y: scaleAll(pick(model, modelIdx), yScale), xaxis: 'x', yaxis: 'y', line: { width: 2, color: MODEL_COLOUR } },
+    // measured first, so the (smooth) model line stays visible on top of a noisy record
     { type: 'scatter', mode: 'lines', name: `measured ${name}`, x: scaleAll(pick(measurement.t, measuredIdx), time), y: scaleAll(pick(measured, measuredIdx), yScale), xaxis: 'x', yaxis: 'y', line: { width: 1.1, color: MEASURED_COLOUR } },
+    { type: 'scatter', mode: 'lines', name: `simulated ${name}`, x: scaleAll(pick(waveforms.t, modelIdx), time), y: scaleAll(pick(model, modelIdx), yScale), xaxis: 'x', yaxis: 'y', line: { width: 1.8, color: MODEL_COLOUR } },
     { type: 'scatter', mode: 'lines', name: `residual ${name} (model − measured)`, x: scaleAll(pick(insideT, residualIdx), time), y: scaleAll(pick(residual, residualIdx), rScale), xaxis: 'x', yaxis: 'y2', line: { width: 1, color: '#4d4d4d' } },
   ];
   return {
@@ -183,9 +184,11 @@ function goodnessTable(goodness: GoodnessOfFit): string {
   return `<table class="goodness"><thead><tr><th>Goodness of fit</th><th class="num">Model</th><th class="num">Measured</th><th class="num">Error (model − measured)</th><th class="num">Relative</th></tr></thead><tbody>${rows}</tbody></table>${arrivals}`;
 }
 
+const short = (x: number): string => String(Number(x.toPrecision(6)));
+
 function columnsTable(measurement: Measurement): string {
   const rows = measurement.columns
-    .map((c) => `<tr><td>${escapeHtml(c.header)}</td><td>${escapeHtml(c.role)}</td><td>${escapeHtml(c.unit)}</td><td class="num">${formatPlain(c.scale, 6)}</td><td class="num">${formatPlain(c.offset, 6)}</td></tr>`)
+    .map((c) => `<tr><td>${escapeHtml(c.header)}</td><td>${escapeHtml(c.role)}</td><td>${escapeHtml(c.unit)}</td><td class="num">${short(c.scale)}</td><td class="num">${short(c.offset)}</td></tr>`)
     .join('');
   return `<table><thead><tr><th>Column</th><th>Read as</th><th>Unit</th><th class="num">Scale</th><th class="num">Offset (column unit)</th></tr></thead><tbody>${rows}</tbody></table>`;
 }
