@@ -6,6 +6,7 @@ import { Command, CommanderError } from 'commander';
 import { InputError } from '../scenario/errors.js';
 import { registerRun } from './run.js';
 import { registerIndex } from './archive.js';
+import { registerMeasureCommands } from './measure.js';
 import { TOOL_VERSION } from '../version.js';
 
 function main(argv: string[]): void {
@@ -18,6 +19,7 @@ function main(argv: string[]): void {
     .exitOverride();
   registerRun(program);
   registerIndex(program);
+  registerMeasureCommands(program);
   try {
     program.parse(argv);
   } catch (error) {

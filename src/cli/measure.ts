@@ -1,0 +1,254 @@
+/**
+ * `railpulse overlay` and `railpulse fit`: a fired shot's records against the model. Wiring only: the CSV
+ * reading, the fit and the goodness of fit are in src/measure, the page in src/report.
+ */
+import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { basename, dirname, extname } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import type { Command } from 'commander';
+import { calibratedScenarioRaw } from '../measure/calibrated.js';
+import { fitScenario, type FitResult } from '../measure/fit.js';
+import { goodnessOfFit, type GoodnessOfFit } from '../measure/goodness.js';
+import { sampledLikeMeasurement } from '../measure/sampling.js';
+import { setScenarioPath } from '../measure/scenario-path.js';
+import { provenanceOf, recordTag, reportDate } from '../output/provenance.js';
+import { formatQuantity } from '../report/format.js';
+import { buildShotReport } from '../report/html.js';
+import { siUnitOfPath } from '../report/inputs.js';
+import type { OverlayFit, OverlayInput } from '../report/overlay.js';
+import { reportBaseName, writeExactFile, writeNewFile } from '../report/write.js';
+import { InputError } from '../scenario/errors.js';
+import { loadScenarioFile, loadScenarioText, type LoadedScenario } from '../scenario/load.js';
+import type { Scenario } from '../scenario/types.js';
+import { runShot } from '../solve/shot.js';
+import type { Shot } from '../solve/types.js';
+import { shotWarnings } from '../solve/warnings.js';
+import { inFile } from './errors.js';
+import { collect, parseFreeList, parseNoise, parseWeights, readMeasuredInputs, type MeasuredInputs, type MeasureFlags } from './measure-options.js';
+
+const DEFAULT_REPORT_DIR = 'reports';
+const CAUTION =
+  'A calibrated model is still a model: before charging a bank for the next shot, follow your institution\'s safety rules, local codes and licensed practice — a charged capacitor bank can kill.';
+
+interface OverlayFlags extends MeasureFlags {
+  report?: string;
+  json?: boolean;
+}
+
+interface FitFlags extends OverlayFlags {
+  free?: string[];
+  weight?: string[];
+  noise?: string[];
+}
+
+/** JSON with NaN and ±∞ as null (an uncertainty on a bound is not a number). */
+function toJson(value: unknown): string {
+  return `${JSON.stringify(value, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`;
+}
+
+function measuredFigures(inputs: MeasuredInputs): OverlayInput['measured'] {
+  return {
+    ...(inputs.muzzleVelocity !== undefined ? { muzzleVelocity: inputs.muzzleVelocity } : {}),
+    ...(inputs.exitTime !== undefined ? { exitTime: inputs.exitTime } : {}),
+  };
+}
+
+function compare(shot: Shot, inputs: MeasuredInputs): GoodnessOfFit {
+  return goodnessOfFit(shot, inputs.measurement, { ...measuredFigures(inputs), ...(inputs.positions ? { positions: inputs.positions } : {}) });
+}
+
+/** Same placement rules as `run --report`: a new file in a folder (never clobbering), or an exact new .html file. */
+function writeOverlayReport(html: string, target: string | undefined, loaded: LoadedScenario): string {
+  const place = target ?? DEFAULT_REPORT_DIR;
+  if (place.toLowerCase().endsWith('.html')) {
+    writeExactFile(place, html, '--report');
+    return place;
+  }
+  if (existsSync(place) && !statSync(place).isDirectory()) {
+    throw new InputError('--report', `${place} is a file; give a folder or a new file name ending in .html`);
+  }
+  mkdirSync(place, { recursive: true });
+  return writeNewFile(place, `${reportBaseName(reportDate(), loaded.scenario.name, recordTag(loaded.sha256))}_overlay`, '.html', html);
+}
+
+function overlayReport(loaded: LoadedScenario, scenario: Scenario, shot: Shot, inputs: MeasuredInputs, goodness: GoodnessOfFit, fit?: OverlayFit): string {
+  return buildShotReport({
+    scenarioRaw: loaded.raw,
+    scenario,
+    shot,
+    provenance: provenanceOf(shot, loaded.sha256),
+    warnings: shotWarnings(scenario, shot).map((w) => w.message),
+    overlay: {
+      measurement: inputs.measurement,
+      ...(inputs.positions ? { positions: inputs.positions } : {}),
+      measured: measuredFigures(inputs),
+      goodness,
+      ...(fit ? { fit } : {}),
+    },
+  });
+}
+
+function goodnessLines(goodness: GoodnessOfFit): string[] {
+  const lines: string[] = [];
+  for (const [name, s] of Object.entries(goodness.signals)) {
+    const unit = name === 'I' ? 'A' : 'V';
+    lines.push(`  RMS error ${name}: ${formatQuantity(s.rms, unit)} (${(s.relativeRms * 100).toPrecision(3)} % of the measured peak, ${s.points} samples)`);
+  }
+  const row = (label: string, c: GoodnessOfFit['peakCurrent'], unit: string, prefix = true): void => {
+    if (c) lines.push(`  ${label}: model ${formatQuantity(c.model, unit, { prefix })}, measured ${formatQuantity(c.measured, unit, { prefix })}, error ${formatQuantity(c.error, unit, { prefix })}`);
+  };
+  row('peak current', goodness.peakCurrent, 'A');
+  row('time of peak current', goodness.peakCurrentTime, 's');
+  row('exit time', goodness.exitTime, 's');
+  row('muzzle velocity', goodness.muzzleVelocity, 'm/s', false);
+  if (goodness.arrivalTimeErrors) lines.push(`  probe arrival-time errors: ${goodness.arrivalTimeErrors.map((e) => (e === null ? 'not reached' : formatQuantity(e, 's'))).join(', ')}`);
+  return lines;
+}
+
+export function overlayCommand(file: string, csv: string, flags: OverlayFlags): GoodnessOfFit {
+  const loaded = loadScenarioFile(file);
+  const inputs = readMeasuredInputs(csv, flags, loaded.scenario.rails.length);
+  const scenario = sampledLikeMeasurement(loaded.scenario, inputs.measurement);
+  const shot = inFile(file, () => runShot(scenario));
+  const goodness = compare(shot, inputs);
+  const written = writeOverlayReport(overlayReport(loaded, scenario, shot, inputs, goodness), flags.report, loaded);
+  if (flags.json) {
+    process.stdout.write(toJson(goodness));
+    process.stderr.write(`report: ${written}\n`);
+  } else {
+    process.stdout.write([`overlay of ${csv} on ${file}:`, ...goodnessLines(goodness), `report: ${written}`].join('\n') + '\n');
+  }
+  return goodness;
+}
+
+/** The fitted values for the report, with display units. */
+function overlayFit(fit: FitResult): OverlayFit {
+  const parameters: OverlayFit['parameters'] = {};
+  for (const [path, p] of Object.entries(fit.parameters)) parameters[path] = { value: p.value, uncertainty: p.uncertainty, initial: p.initial, unit: siUnitOfPath(path) };
+  return { parameters, correlations: fit.correlations, residual: fit.residual, shots: fit.shots, iterations: fit.iterations, warnings: fit.warnings };
+}
+
+function fitLines(fit: FitResult, seconds: number): string[] {
+  const names = Object.keys(fit.parameters);
+  const width = Math.max(...names.map((n) => n.length));
+  const lines = [`fit ${fit.converged ? 'converged' : 'did NOT converge'} after ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s (${fit.message})`];
+  for (const name of names) {
+    const p = fit.parameters[name]!;
+    const unit = siUnitOfPath(name);
+    const u = Number.isFinite(p.uncertainty) ? `± ${formatQuantity(p.uncertainty, unit, { digits: 2 })}` : '(on a bound)';
+    lines.push(`  ${name.padEnd(width)}  ${formatQuantity(p.value, unit, { digits: 5 })} ${u}   (initial ${formatQuantity(p.initial, unit, { digits: 5 })})`);
+  }
+  if (names.length > 1) {
+    lines.push('correlations:');
+    lines.push(`  ${''.padEnd(width)}  ${names.map((_, j) => `[${j + 1}]`.padStart(7)).join('')}`);
+    names.forEach((a, i) => {
+      const row = names.map((b, j) => (i === j ? 1 : fit.correlations[`${a}|${b}`] ?? fit.correlations[`${b}|${a}`] ?? NaN).toFixed(3).padStart(7)).join('');
+      lines.push(`  ${`[${i + 1}] ${a}`.padEnd(width + 4)}${row}`);
+    });
+  }
+  const groups = Object.entries(fit.residual.perGroup)
+    .map(([name, g]) => `${name} RMS ${g.rmsSI.toPrecision(3)} (σ ${g.noise.toPrecision(3)}, ${g.points} points)`)
+    .join('; ');
+  lines.push(`residual: RMS ${fit.residual.rms.toPrecision(3)} noise units, χ²/ν = ${fit.residual.chiSquaredReduced.toPrecision(3)}; ${groups} (SI)`);
+  for (const warning of fit.warnings) lines.push(`warning: ${warning}`);
+  return lines;
+}
+
+/**
+ * `friction.staticCoefficient` defaults to μ in a scenario file; when the file leaves it to the default, a
+ * fitted μ must carry it along, as loading the calibrated file will.
+ */
+function pathSetter(raw: Record<string, unknown>): (scenario: Scenario, path: string, value: number) => Scenario {
+  const friction = raw.friction;
+  const staticWritten = typeof friction === 'object' && friction !== null && 'staticCoefficient' in friction;
+  return (scenario, path, value) => {
+    const next = setScenarioPath(scenario, path, value);
+    return path === 'friction.coefficient' && !staticWritten ? setScenarioPath(next, 'friction.staticCoefficient', value) : next;
+  };
+}
+
+export function fitCommand(file: string, csv: string, flags: FitFlags): FitResult {
+  const loaded = loadScenarioFile(file);
+  const free = parseFreeList(flags.free, loaded.scenario);
+  const weights = parseWeights(flags.weight);
+  const noise = parseNoise(flags.noise);
+  const inputs = readMeasuredInputs(csv, flags, loaded.scenario.rails.length);
+  const started = performance.now();
+  const fit = inFile(file, () =>
+    fitScenario({
+      scenario: loaded.scenario,
+      measurement: inputs.measurement,
+      free,
+      ...(inputs.positions ? { positions: inputs.positions } : {}),
+      ...(inputs.muzzleVelocity !== undefined ? { muzzleVelocity: inputs.muzzleVelocity } : {}),
+      weights,
+      noise,
+      runShot: (scenario) => runShot(scenario),
+      setPath: pathSetter(loaded.raw),
+    }),
+  );
+  const seconds = (performance.now() - started) / 1000;
+
+  const date = reportDate();
+  const fitted = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty }]));
+  const raw = calibratedScenarioRaw(loaded.raw, { scenarioFile: basename(file), measurementFile: basename(csv), date, fitted });
+  const text = `${JSON.stringify(raw, null, 2)}\n`;
+  // the calibrated file must load like any other before it is written
+  const calibrated = loadScenarioText(text, 'calibrated scenario');
+  const base = basename(file, extname(file));
+  const scenarioPath = writeNewFile(dirname(file), `${base}.calibrated`, '.json', text);
+  const loadedCalibrated = { ...calibrated, file: scenarioPath };
+
+  const scenario = sampledLikeMeasurement(calibrated.scenario, inputs.measurement);
+  const shot = runShot(scenario);
+  const goodness = compare(shot, inputs);
+  const reportPath = writeOverlayReport(overlayReport(loadedCalibrated, scenario, shot, inputs, goodness, overlayFit(fit)), flags.report, loadedCalibrated);
+
+  if (flags.json) {
+    const parameters = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty, initial: p.initial }]));
+    process.stdout.write(toJson({ parameters, correlations: fit.correlations, residual: fit.residual }));
+    const warnings = fit.warnings.map((w) => `warning: ${w}\n`).join('');
+    process.stderr.write(`fit: ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s\n${warnings}calibrated scenario: ${scenarioPath}\nreport: ${reportPath}\n${CAUTION}\n`);
+  } else {
+    const lines = [`fit of ${file} to ${csv}:`, ...fitLines(fit, seconds), 'calibrated shot against the measurement:', ...goodnessLines(goodness), `calibrated scenario: ${scenarioPath}`, `report: ${reportPath}`, CAUTION];
+    process.stdout.write(lines.join('\n') + '\n');
+  }
+  return fit;
+}
+
+function measureOptions(command: Command): Command {
+  return command
+    .option('--map <HEADER=SIGNAL>', 'read a column as t, I, V_breech or V_muzzle (or ignore it), e.g. CH1=I (repeatable)', collect)
+    .option('--unit <HEADER=UNIT>', 'unit of a column, overriding its header, e.g. CH1=kA (repeatable)', collect)
+    .option('--scale <HEADER=K>', 'multiply a column by K in its own unit (probe sensitivity; repeatable)', collect)
+    .option('--offset <HEADER=VALUE>', 'add VALUE after scaling, with a unit or in the column unit, e.g. t=2us (repeatable)', collect)
+    .option('--positions <file>', 'probe arrival times: a CSV with columns x [m] and t [us]')
+    .option('--muzzle-velocity <value>', 'measured muzzle velocity, e.g. 512m/s')
+    .option('--exit-time <value>', 'measured exit time, e.g. 1.32ms (a probe at the muzzle gives it too)')
+    .option('--report <path>', `where to write the HTML report: a folder, or a new file ending in .html (default: ${DEFAULT_REPORT_DIR}/)`)
+    .option('--json', 'print the result as JSON (SI) on stdout and nothing else');
+}
+
+export function registerMeasureCommands(program: Command): void {
+  measureOptions(
+    program
+      .command('overlay')
+      .description("draw a fired shot's measured signals over the simulated ones; goodness of fit and an HTML report")
+      .argument('<scenario>', 'scenario file (JSON)')
+      .argument('<measured>', 'oscilloscope / DAQ export (CSV): t and I, V_breech, V_muzzle columns with units'),
+  ).action((file: string, csv: string, flags: OverlayFlags) => {
+    overlayCommand(file, csv, flags);
+  });
+  measureOptions(
+    program
+      .command('fit')
+      .description('calibrate scenario parameters to a measured shot; writes <scenario>.calibrated.json and an overlay report')
+      .argument('<scenario>', 'scenario file (JSON)')
+      .argument('<measured>', 'oscilloscope / DAQ export (CSV)')
+      .option('--free <PATH[=lo:hi]>', 'a parameter to fit, with optional bounds in units, e.g. rails.inductanceGradient=0.3uH/m:0.6uH/m (repeatable)', collect)
+      .option('--weight <SIGNAL=W>', 'weight of I, V_breech, V_muzzle, position or muzzleVelocity (default 1; repeatable)', collect)
+      .option('--noise <SIGNAL=VALUE>', 'noise σ of a signal with its unit, e.g. I=200A (default: estimated from the record; repeatable)', collect),
+  ).action((file: string, csv: string, flags: FitFlags) => {
+    fitCommand(file, csv, flags);
+  });
+}
