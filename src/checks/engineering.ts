@@ -5,6 +5,7 @@
  * above the DOE-HDBK-1092 thresholds: they warn, and defer to local codes and the institution's rules.
  */
 import type { ShotResults } from '../solve/types.js';
+import { STANDARD_GRAVITY } from '../units/format.js';
 import { fusionAction, meltingAction, temperatureAfterAction, DEFAULT_AMBIENT } from './heating.js';
 import { inductanceGradientOf, type RailGeometry } from './inductance.js';
 import type { Material } from './materials.js';
@@ -50,7 +51,6 @@ export interface EngineeringInput {
 }
 
 const MU0 = 4e-7 * Math.PI;
-const STANDARD_GRAVITY = 9.80665;
 
 export function engineeringChecks(input: EngineeringInput): Check[] {
   const limits: EngineeringLimits = { ...DEFAULT_LIMITS, ...input.limits };

@@ -14,6 +14,7 @@ import {
   type ReportCheck,
   type ReportProvenance,
 } from './embedded.js';
+import { STANDARD_GRAVITY } from '../units/format.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
 import { formatPercent, formatQuantity, formatScientific } from './format.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
@@ -41,8 +42,7 @@ export interface ShotReportInput {
   overlay?: OverlayInput;
 }
 
-/** Standard acceleration of gravity, g_n = 9.80665 m/s² [published: 3rd CGPM (1901), SI Brochure]. */
-export const STANDARD_GRAVITY = 9.80665;
+export { STANDARD_GRAVITY };
 
 const OUTCOME_TEXT: Record<ShotResults['outcome'], string> = {
   exited: 'left the muzzle',
