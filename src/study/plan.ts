@@ -1,0 +1,91 @@
+/**
+ * From command-line choices to a SweepPlan: parse --vary, build the design, the manifest and the output directory.
+ * No I/O (the directory is only named here; sweep.ts creates it).
+ */
+import { InputError } from '../scenario/errors.js';
+import type { Scenario } from '../scenario/types.js';
+import { makeDesign, type DesignKind } from './design.js';
+import { MANIFEST_FORMAT, SHARD_RULE, defaultStudyDir, type ShardSpec, type StudyManifest } from './output.js';
+import { setPath } from './paths.js';
+import { rowLayout } from './rows.js';
+import { parseVaries, type DimensionOf } from './spec.js';
+import type { SweepPlan } from './sweep.js';
+
+export interface SweepChoices {
+  scenario: Scenario;
+  /** the scenario file as given, and the sha256 of its bytes */
+  source: { file: string; sha256: string };
+  vary: string[];
+  design?: DesignKind;
+  samples?: number;
+  seed?: number;
+  shard?: ShardSpec | null;
+  out?: string;
+  resume?: boolean;
+  dimensionOf: DimensionOf;
+  now?: Date;
+  /** where default study directories go (default `studies`) */
+  studiesRoot?: string;
+}
+
+/** `--shard i/n`: 1 ≤ i ≤ n. */
+export function parseShard(text: string): ShardSpec {
+  const match = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
+  const index = Number(match?.[1]);
+  const count = Number(match?.[2]);
+  if (!match || count < 1 || index < 1 || index > count) {
+    throw new InputError('--shard', `expected i/n with 1 ≤ i ≤ n (e.g. 2/8 for the second of eight shards), got "${text}"`);
+  }
+  return { index, count };
+}
+
+/** A whole number option (--samples, --seed, --jobs). */
+export function parseWholeNumber(option: string, text: string, min: number): number {
+  const value = Number(text);
+  if (!/^\s*\d+\s*$/.test(text) || !Number.isSafeInteger(value) || value < min) {
+    throw new InputError(option, `expected a whole number ≥ ${min}, got "${text}"`);
+  }
+  return value;
+}
+
+export function makeSweepPlan(choices: SweepChoices): SweepPlan {
+  const axes = parseVaries(choices.vary, choices.scenario, choices.dimensionOf);
+  const design = makeDesign(axes, { kind: choices.design ?? 'grid', samples: choices.samples, seed: choices.seed ?? 1 });
+  const shard = choices.shard ?? null;
+  if (shard && shard.count > design.count) {
+    throw new InputError('--shard', `${shard.count} shards for ${design.count} points would leave shards empty`);
+  }
+  const manifest: StudyManifest = {
+    format: MANIFEST_FORMAT,
+    scenario: { file: choices.source.file, name: choices.scenario.name, sha256: choices.source.sha256 },
+    vary: axes.map((axis) => ({ path: axis.path, spec: axis.spec })),
+    design: { kind: design.kind, samples: design.kind === 'grid' ? null : design.count, seed: design.seed },
+    points: design.count,
+    shard: shard ? { ...shard, rule: SHARD_RULE } : null,
+    columns: rowLayout(axes.map((axis) => axis.path), choices.scenario.bank.length).columns,
+    created: (choices.now ?? new Date()).toISOString(),
+  };
+  const outDir = choices.out ?? defaultStudyDir(manifest, choices.now ?? new Date(), choices.studiesRoot);
+  return { scenario: choices.scenario, design, manifest, outDir, resume: choices.resume ?? false };
+}
+
+/**
+ * Check each axis's values one at a time against the scenario's range checks, so a value that can never be valid
+ * (a negative mass, a zero inductance) is one clear error before anything runs. Combinations that are invalid
+ * together are recorded per point instead.
+ */
+export function checkAxes(plan: SweepPlan, validate: (scenario: Scenario) => void): void {
+  for (const axis of plan.design.axes) {
+    const values = plan.design.kind === 'grid' ? axis.values : [axis.min, axis.max];
+    const probe = structuredClone(plan.scenario);
+    for (const value of values) {
+      setPath(probe, axis.steps, value);
+      try {
+        validate(probe);
+      } catch (error) {
+        if (!(error instanceof InputError)) throw error;
+        throw new InputError('--vary', `${axis.path} = ${value} (SI) is not allowed: ${error.problem}`);
+      }
+    }
+  }
+}
