@@ -7,6 +7,7 @@ const banner = {
 };
 const entries = [
   { in: 'src/cli/main.ts', out: 'railpulse' },
+  { in: 'src/study/worker.ts', out: 'sweep-worker' },
 ];
 await build({
   entryPoints: entries,

@@ -1,0 +1,74 @@
+/**
+ * Run a batch of study points and format their rows. Shared by the worker threads and the in-process runner;
+ * worker-safe (imports no units and no mathjs).
+ */
+import type { Scenario } from '../scenario/types.js';
+import type { Shot } from '../solve/types.js';
+import { parsePath, setPath, type PathStep } from './paths.js';
+import { csvLine, jsonLine, rowLayout, rowObject, type RowLayout } from './rows.js';
+
+export type RunShot = (scenario: Scenario, options?: { waveforms?: boolean }) => Shot;
+
+/** What a runner needs once: the SI scenario (parsed in the main thread) and the varied paths. */
+export interface BatchContext {
+  scenario: Scenario;
+  paths: string[];
+}
+
+export interface BatchRequest {
+  /** sequence number of the batch within the run (for the reorder buffer) */
+  sequence: number;
+  indices: number[];
+  /** indices.length × paths.length SI values, row-major */
+  values: Float64Array;
+  /** per point: null, or why the point is not a valid scenario (checked in the main thread) */
+  invalid: (string | null)[];
+}
+
+export interface BatchResult {
+  sequence: number;
+  count: number;
+  failed: number;
+  csv: string;
+  json: string;
+}
+
+export interface BatchRunner {
+  layout: RowLayout;
+  run(request: BatchRequest): BatchResult;
+}
+
+export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchRunner {
+  const layout = rowLayout(context.paths, context.scenario.bank.length);
+  const steps: PathStep[][] = context.paths.map((path) => parsePath(path)!);
+  const dimensions = steps.length;
+  return {
+    layout,
+    run(request) {
+      let csv = '';
+      let json = '';
+      let failed = 0;
+      request.indices.forEach((index, k) => {
+        const values = request.values.subarray(k * dimensions, (k + 1) * dimensions);
+        const invalid = request.invalid[k] ?? null;
+        let row;
+        if (invalid !== null) {
+          row = rowObject(layout, index, values, null, invalid);
+        } else {
+          // A fresh copy a point: the solver must never see another point's values.
+          const scenario = structuredClone(context.scenario);
+          steps.forEach((step, d) => setPath(scenario, step, values[d]!));
+          try {
+            row = rowObject(layout, index, values, runShot(scenario, { waveforms: false }).results);
+          } catch (error) {
+            row = rowObject(layout, index, values, null, error instanceof Error ? error.message : String(error));
+          }
+        }
+        if ('error' in row) failed += 1;
+        csv += csvLine(layout, row);
+        json += jsonLine(row);
+      });
+      return { sequence: request.sequence, count: request.indices.length, failed, csv, json };
+    },
+  };
+}

@@ -1,0 +1,6 @@
+// Entry of the sweep worker bundle (dist/sweep-worker.mjs): the solver and the row formatter only — no units,
+// no mathjs, so a worker starts in milliseconds.
+import { runShot } from '../solve/shot.js';
+import { serveSweep } from './workerHost.js';
+
+serveSweep(runShot);
