@@ -7,6 +7,7 @@ import { InputError } from '../scenario/errors.js';
 import { registerRun } from './run.js';
 import { registerIndex } from './archive.js';
 import { registerMeasureCommands } from './measure.js';
+import { registerStudyCommands } from '../study/commands.js';
 import { TOOL_VERSION } from '../version.js';
 
 function main(argv: string[]): void {
@@ -20,6 +21,7 @@ function main(argv: string[]): void {
   registerRun(program);
   registerIndex(program);
   registerMeasureCommands(program);
+  registerStudyCommands(program);
   try {
     program.parse(argv);
   } catch (error) {

@@ -119,7 +119,15 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
   if (armature.mass === undefined && scenario.armature.mass === undefined) {
     throw new InputError('armature.mass', 'missing required key (or give armature.geometry and armature.material to compute it)');
   }
-  if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(read.limits), 'limits');
+  if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
+}
+
+/** Limits that only `railpulse size` reads (src/study/sizeInput.ts); the checks take the rest. */
+export const SIZING_LIMIT_KEYS = ['peakCurrent', 'actionIntegral', 'reversal', 'chargeVoltage', 'modulesPerGroup'];
+
+function withoutSizingLimits(raw: unknown): unknown {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
+  return Object.fromEntries(Object.entries(raw as Read).filter(([key]) => !SIZING_LIMIT_KEYS.includes(key)));
 }
 
 function stripUndefined(object: Read): Read {

@@ -161,7 +161,8 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     },
   },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
-  limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults' },
+  limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults, and the limits railpulse size must respect (peakCurrent, peakAcceleration, actionIntegral, reversal, chargeVoltage, modulesPerGroup)' },
+  target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }' },
   solver: {
     kind: 'section',
     optional: true,
