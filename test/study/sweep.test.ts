@@ -1,0 +1,133 @@
+import { appendFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { dimensionOfPath, loadScenarioFile, validateScenario } from '../../src/scenario/load.js';
+import { runShot } from '../../src/solve/shot.js';
+import { merge } from '../../src/study/merge.js';
+import { parsePath, setPath } from '../../src/study/paths.js';
+import { makeSweepPlan, type SweepChoices } from '../../src/study/plan.js';
+import { csvLine, rowLayout } from '../../src/study/rows.js';
+import { runSweep } from '../../src/study/sweep.js';
+import { TWO_GROUP_FILE } from './fixtures.js';
+
+const loaded = loadScenarioFile(TWO_GROUP_FILE);
+const VARY = ['bank[0].voltage=2kV:4kV:3', 'bank[1].trigger=0us,100us,200us', 'armature.mass=10g,15g'];
+const root = mkdtempSync(join(tmpdir(), 'railpulse-sweep-'));
+let counter = 0;
+
+function plan(extra: Partial<SweepChoices> = {}) {
+  counter += 1;
+  return makeSweepPlan({
+    scenario: loaded.scenario,
+    source: { file: TWO_GROUP_FILE, sha256: loaded.sha256 },
+    vary: VARY,
+    dimensionOf: dimensionOfPath,
+    out: join(root, `run${counter}`),
+    now: new Date('2026-01-01T00:00:00Z'),
+    ...extra,
+  });
+}
+
+const read = (dir: string, file: string): string => readFileSync(join(dir, file), 'utf8');
+const validate = (scenario: Parameters<typeof validateScenario>[0]) => validateScenario(scenario);
+
+describe('sweep', () => {
+  let reference = '';
+  let referenceCsv = '';
+
+  it('each row equals a single runShot of the same point, exactly (same SI inputs, same solver)', async () => {
+    const p = plan();
+    const summary = await runSweep(p, { jobs: 2, validate });
+    expect(summary).toMatchObject({ points: 18, ran: 18, failed: 0, complete: true });
+    reference = read(p.outDir, 'points.jsonl');
+    referenceCsv = read(p.outDir, 'points.csv');
+    const rows = reference.trimEnd().split('\n').map((line) => JSON.parse(line) as Record<string, unknown>);
+    expect(rows.map((row) => row.index)).toEqual(Array.from({ length: 18 }, (_, i) => i));
+    for (const index of [0, 7, 17]) {
+      const scenario = structuredClone(loaded.scenario);
+      const point = p.design.point(index);
+      p.design.axes.forEach((axis, d) => setPath(scenario, parsePath(axis.path)!, point[d]!));
+      const { index: rowIndex, ...rest } = rows[index]!;
+      const expected = { ...Object.fromEntries(p.design.axes.map((axis, d) => [axis.path, point[d]])), ...runShot(scenario, { waveforms: false }).results };
+      expect(rowIndex).toBe(index);
+      expect(rest).toEqual(JSON.parse(JSON.stringify(expected)));
+    }
+    // CSV: header + one line a point, each rebuilt identically from its JSONL row
+    const layout = rowLayout(p.design.axes.map((axis) => axis.path), 2);
+    expect(referenceCsv.split('\n')[0]).toContain('energy.losses.rails');
+    expect(referenceCsv.split('\n')[0]).toContain('modules[1].reversal');
+    expect(referenceCsv).toBe(readFileSync(join(p.outDir, 'points.csv'), 'utf8'));
+    expect(referenceCsv.split('\n').slice(1).join('\n')).toBe(rows.map((row) => csvLine(layout, row)).join(''));
+  });
+
+  it('output order does not depend on --jobs or batch size', async () => {
+    const one = plan();
+    await runSweep(one, { jobs: 1, batchSize: 5, validate });
+    expect(read(one.outDir, 'points.jsonl')).toBe(reference);
+    expect(read(one.outDir, 'points.csv')).toBe(referenceCsv);
+  });
+
+  it('shards 1/3, 2/3, 3/3 merged equal the unsharded run byte for byte', async () => {
+    const dirs: string[] = [];
+    for (let index = 1; index <= 3; index += 1) {
+      const shard = plan({ shard: { index, count: 3 } });
+      const summary = await runSweep(shard, { jobs: 2, validate });
+      expect(summary.points).toBe(6);
+      const indices = read(shard.outDir, 'points.jsonl').trimEnd().split('\n').map((line) => (JSON.parse(line) as { index: number }).index);
+      expect(indices.every((i) => i % 3 === index - 1)).toBe(true);
+      dirs.push(shard.outDir);
+    }
+    const out = join(root, 'merged');
+    merge([dirs[2]!, dirs[0]!, dirs[1]!], out);
+    expect(read(out, 'points.jsonl')).toBe(reference);
+    expect(read(out, 'points.csv')).toBe(referenceCsv);
+
+    // a shard missing, or given twice: refused, naming the index
+    expect(() => merge([dirs[0]!, dirs[1]!], join(root, 'merged-missing'))).toThrow(/point 2 is in none of the shards/);
+    expect(() => merge([dirs[0]!, dirs[1]!, dirs[2]!, dirs[1]!], join(root, 'merged-twice'))).toThrow(/point 1 is also in/);
+    // a different study is refused
+    const other = plan({ vary: ['armature.mass=10g,15g'], shard: { index: 1, count: 2 } });
+    await runSweep(other, { jobs: 1, validate });
+    expect(() => merge([dirs[0]!, other.outDir], join(root, 'merged-other'))).toThrow(/different study/);
+  });
+
+  it('--resume cuts a half-written row, keeps finished ones, and ends with every point exactly once', async () => {
+    const p = plan();
+    // Pretend a run was killed after 5 points: 5 complete JSONL rows plus half a row, CSV one row ahead.
+    const lines = reference.split('\n');
+    await runSweep({ ...p, design: p.design }, { jobs: 1, signal: AbortSignal.abort(), validate });
+    writeFileSync(join(p.outDir, 'points.jsonl'), `${lines.slice(0, 5).join('\n')}\n${lines[5]!.slice(0, 40)}`);
+    const csvLines = referenceCsv.split('\n');
+    writeFileSync(join(p.outDir, 'points.csv'), `${csvLines.slice(0, 7).join('\n')}\n`);
+    const summary = await runSweep({ ...p, resume: true }, { jobs: 2, validate });
+    expect(summary).toMatchObject({ resumedFrom: 5, ran: 13, complete: true });
+    expect(read(p.outDir, 'points.jsonl')).toBe(reference);
+    expect(read(p.outDir, 'points.csv')).toBe(referenceCsv);
+    // resuming a finished study runs nothing
+    expect(await runSweep({ ...p, resume: true }, { jobs: 2 })).toMatchObject({ ran: 0, complete: true });
+  });
+
+  it('refuses to write into a non-empty directory without --resume, and refuses to resume another study', async () => {
+    const p = plan();
+    await runSweep(p, { jobs: 1, signal: AbortSignal.abort() });
+    appendFileSync(join(p.outDir, 'points.jsonl'), '');
+    await expect(runSweep(p, { jobs: 1 })).rejects.toThrow(/exists and is not empty/);
+    const other = makeSweepPlan({ scenario: loaded.scenario, source: { file: TWO_GROUP_FILE, sha256: loaded.sha256 }, vary: ['armature.mass=1g,2g'], dimensionOf: dimensionOfPath, out: p.outDir, resume: true });
+    await expect(runSweep(other, { jobs: 1 })).rejects.toThrow(/holds a different study/);
+  });
+
+  it('a point that fails the range checks is recorded with its reason, not run', async () => {
+    const p = plan({ vary: ['friction.coefficient=0.1,0.3', 'friction.staticCoefficient=0.2'] });
+    await runSweep(p, { jobs: 1, validate });
+    const rows = read(p.outDir, 'points.jsonl').trimEnd().split('\n').map((line) => JSON.parse(line) as Record<string, unknown>);
+    expect(rows[0]!.error).toBeUndefined();
+    expect(String(rows[1]!.error)).toMatch(/staticCoefficient|static/i);
+  });
+
+  it('the worker bundle carries the solver but not the unit parser (mathjs costs ~1 s a thread to import)', () => {
+    const bundle = readFileSync(new URL('../../dist/sweep-worker.mjs', import.meta.url), 'utf8');
+    expect(bundle).toContain('// src/solve/shot.ts');
+    expect(bundle).not.toMatch(/\/\/ (src\/units\/|node_modules\/mathjs)/);
+  });
+});
