@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
 import { readMeasurement, readPositionPoints } from '../src/measure/csv.js';
 import { fitScenario } from '../src/measure/fit.js';
-import { setScenarioPath } from '../src/measure/scenario-path.js';
+import { setScenarioPath } from '../src/scenario/paths.js';
 import { loadScenarioFile } from '../src/scenario/load.js';
 import { runShot } from '../src/solve/shot.js';
 import { makeFixture, NOISE, PROBE_JITTER, TRIGGER_OFFSET_US, TRUTH } from '../test/measure/cli-fixture.js';

@@ -7,10 +7,10 @@ import { readFileSync } from 'node:fs';
 import { unit as mathUnit } from 'mathjs';
 import { readMeasurement, readPositionPoints, type Measurement, type MeasurementOptions, type PositionPoints } from '../measure/csv.js';
 import type { FitNoise, FreeParameter, ResidualGroup } from '../measure/fit.js';
-import { getScenarioPath } from '../measure/scenario-path.js';
 import { readTable } from '../measure/table.js';
 import { InputError } from '../scenario/errors.js';
-import { dimensionOfPath, fieldAt, quantityPaths, splitPath } from '../scenario/fields.js';
+import { dimensionOfPath, fieldAt, quantityPaths } from '../scenario/fields.js';
+import { getScenarioPath, parsePath } from '../scenario/paths.js';
 import { didYouMean } from '../scenario/suggest.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, normaliseUnitText, QuantityError, toSI, type Dimension } from '../units/quantity.js';
@@ -137,7 +137,7 @@ function fittablePaths(): string[] {
 export function parseFree(text: string, scenario: Scenario): FreeParameter {
   const at = text.indexOf('=');
   const path = (at < 0 ? text : text.slice(0, at)).trim();
-  const steps = splitPath(path);
+  const steps = parsePath(path);
   if (!steps) throw new InputError('--free', `"${path}" is not a scenario path (e.g. rails.inductanceGradient, bank[0].esr)`);
   const dimension = dimensionOfPath(path);
   const pattern = path.replace(/\[\d+\]/g, '[n]');

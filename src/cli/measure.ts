@@ -10,7 +10,7 @@ import { calibratedScenarioRaw } from '../measure/calibrated.js';
 import { fitScenario, type FitResult } from '../measure/fit.js';
 import { goodnessOfFit, type GoodnessOfFit } from '../measure/goodness.js';
 import { sampledLikeMeasurement } from '../measure/sampling.js';
-import { setScenarioPath } from '../measure/scenario-path.js';
+import { setScenarioPath } from '../scenario/paths.js';
 import { provenanceOf, recordTag, reportDate } from '../output/provenance.js';
 import { formatQuantity } from '../report/format.js';
 import { buildShotReport } from '../report/html.js';

@@ -4,7 +4,7 @@
  * name marked "(calibrated)" and a description line saying against which file, on which date, which
  * values were fitted. Pure: the caller writes the text and checks it loads.
  */
-import { splitPath } from '../scenario/fields.js';
+import { parsePath } from '../scenario/paths.js';
 
 export interface CalibrationNote {
   /** the scenario file that was calibrated */
@@ -21,7 +21,7 @@ type Node = Record<string | number, unknown>;
 
 /** Set `value` at a scenario path in a parsed JSON object, creating missing (or null) sections. */
 export function setRawPath(raw: Record<string, unknown>, path: string, value: number): void {
-  const steps = splitPath(path);
+  const steps = parsePath(path);
   if (!steps) throw new RangeError(`not a scenario path: ${path}`);
   let node: Node = raw;
   for (let k = 0; k < steps.length - 1; k++) {

@@ -31,7 +31,7 @@ import type { Shot, Waveforms } from '../solve/types.js';
 import { InputError } from '../scenario/errors.js';
 import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SignalName } from './csv.js';
 import { leastSquares } from './lsq.js';
-import { getScenarioPath } from './scenario-path.js';
+import { getScenarioPath } from '../scenario/paths.js';
 import { estimateNoise, interpolateSorted, median } from './waveform.js';
 
 export interface FreeParameter {

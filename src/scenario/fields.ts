@@ -3,6 +3,7 @@
  * The loader, the JSON Schema and the sweep's path lookup all read this one table.
  */
 import { DIMENSIONS, type Dimension } from '../units/quantity.js';
+import { parsePath } from './paths.js';
 
 export interface QuantityField {
   kind: 'quantity';
@@ -177,24 +178,9 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
   },
 };
 
-/** Split `bank[0].voltage` into ['bank', 0, 'voltage']. */
-export function splitPath(path: string): (string | number)[] | null {
-  const parts: (string | number)[] = [];
-  const re = /([A-Za-z_$][\w$]*)|\[(\d+)\]|\./gy;
-  let m: RegExpExecArray | null;
-  let last = 0;
-  while ((m = re.exec(path)) !== null) {
-    if (m[1] !== undefined) parts.push(m[1]);
-    else if (m[2] !== undefined) parts.push(Number(m[2]));
-    last = re.lastIndex;
-    if (last === path.length) break;
-  }
-  return last === path.length && parts.length > 0 ? parts : null;
-}
-
 /** The field description at a scenario path, or undefined. */
 export function fieldAt(path: string): Field | undefined {
-  const parts = splitPath(path);
+  const parts = parsePath(path);
   if (!parts) return undefined;
   let fields: Record<string, Field> | undefined = SCENARIO_FIELDS;
   let field: Field | undefined;

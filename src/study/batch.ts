@@ -4,7 +4,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
-import { parsePath, setPath, type PathStep } from './paths.js';
+import { parsePath, setPath, type PathStep } from '../scenario/paths.js';
 import { csvLine, jsonLine, rowLayout, rowObject, type RowLayout } from './rows.js';
 
 export type RunShot = (scenario: Scenario, options?: { waveforms?: boolean }) => Shot;

@@ -6,7 +6,7 @@ import { InputError } from '../scenario/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { makeDesign, type DesignKind } from './design.js';
 import { MANIFEST_FORMAT, SHARD_RULE, defaultStudyDir, type ShardSpec, type StudyManifest } from './output.js';
-import { setPath } from './paths.js';
+import { setPath } from '../scenario/paths.js';
 import { rowLayout } from './rows.js';
 import { parseVaries, type DimensionOf } from './spec.js';
 import type { SweepPlan } from './sweep.js';

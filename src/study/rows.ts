@@ -7,7 +7,7 @@
  * The CSV line is always made from the row object, so a line rebuilt from points.jsonl is byte-identical.
  */
 import { LOSS_KEYS, type ShotResults } from '../solve/types.js';
-import { getPath, parsePath, type PathStep } from './paths.js';
+import { getPath, parsePath, type PathStep } from '../scenario/paths.js';
 
 export interface RowLayout {
   /** the varied paths, in --vary order */

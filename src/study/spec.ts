@@ -11,7 +11,7 @@
 import { InputError } from '../scenario/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, toSI, type Dimension } from '../units/quantity.js';
-import { closestPath, formatPath, getPath, listNumericPaths, parsePath, type PathStep } from './paths.js';
+import { closestPath, formatPath, getPath, listNumericPaths, parsePath, type PathStep } from '../scenario/paths.js';
 
 export type AxisKind = 'list' | 'linear' | 'log';
 

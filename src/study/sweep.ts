@@ -27,7 +27,7 @@ import {
   type ShardSpec,
   type StudyManifest,
 } from './output.js';
-import { setPath } from './paths.js';
+import { setPath } from '../scenario/paths.js';
 import { makeWorkerPool, type PointRunner } from './pool.js';
 import { silentProgress, type ProgressSink } from './progress.js';
 import { csvHeader, csvLine, rowLayout, type RowLayout } from './rows.js';

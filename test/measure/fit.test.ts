@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { readMeasurement, type Measurement } from '../../src/measure/csv.js';
 import { fitScenario } from '../../src/measure/fit.js';
 import { goodnessOfFit } from '../../src/measure/goodness.js';
-import { getScenarioPath, setScenarioPath } from '../../src/measure/scenario-path.js';
+import { getScenarioPath, setScenarioPath } from '../../src/scenario/paths.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { fakeRunShot, rlcCurrent, rlcPeak, rlcScenario } from './fake-model.js';
 import { mean, seededNormal, standardDeviation } from './random.js';

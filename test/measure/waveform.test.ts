@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { estimateNoise, interpolateSorted, locatePeak } from '../../src/measure/waveform.js';
-import { getScenarioPath, setScenarioPath } from '../../src/measure/scenario-path.js';
+import { getScenarioPath, setScenarioPath } from '../../src/scenario/paths.js';
 import { InputError } from '../../src/scenario/errors.js';
 import { rlcScenario } from './fake-model.js';
 import { seededNormal } from './random.js';
@@ -36,7 +36,7 @@ describe('locatePeak', () => {
   });
 });
 
-describe('scenario paths (stand-in setter until src/scenario/paths.ts)', () => {
+describe('scenario paths (src/scenario/paths.ts)', () => {
   it('reads and replaces one number without touching the original', () => {
     const s = rlcScenario();
     const changed = setScenarioPath(s, 'bank[0].esr', 0.01);

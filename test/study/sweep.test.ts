@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { dimensionOfPath, loadScenarioFile, validateScenario } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import { merge } from '../../src/study/merge.js';
-import { parsePath, setPath } from '../../src/study/paths.js';
+import { parsePath, setPath } from '../../src/scenario/paths.js';
 import { makeSweepPlan, type SweepChoices } from '../../src/study/plan.js';
 import { csvLine, rowLayout } from '../../src/study/rows.js';
 import { runSweep } from '../../src/study/sweep.js';

@@ -1,8 +1,10 @@
 /**
- * Scenario paths such as `bank[1].voltage` or `armature.mass`: read, write and list the numbers a study may
- * vary. Pure and free of src/units (the sweep worker imports it, and must not pull in mathjs).
+ * Scenario paths such as `bank[1].voltage` or `armature.mass`: read, write and list the numbers that studies
+ * vary and fits free. Pure and free of src/units (the sweep worker imports it, and must not pull in mathjs).
  */
-import type { Scenario } from '../scenario/types.js';
+import type { Scenario } from './types.js';
+import { InputError } from './errors.js';
+import { didYouMean } from './suggest.js';
 
 export type PathStep = string | number;
 
@@ -70,31 +72,35 @@ export function listNumericPaths(root: unknown, prefix: PathStep[] = []): string
   return [];
 }
 
-function editDistance(a: string, b: string): number {
-  const previous = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i += 1) {
-    let diagonal = previous[0]!;
-    previous[0] = i;
-    for (let j = 1; j <= b.length; j += 1) {
-      const above = previous[j]!;
-      const cost = a[i - 1]!.toLowerCase() === b[j - 1]!.toLowerCase() ? 0 : 1;
-      previous[j] = Math.min(above + 1, previous[j - 1]! + 1, diagonal + cost);
-      diagonal = above;
-    }
-  }
-  return previous[b.length]!;
-}
-
 /** The closest known path, if it is close enough to be a likely typo. */
 export function closestPath(path: string, known: readonly string[]): string | undefined {
-  let best: string | undefined;
-  let bestDistance = Infinity;
-  for (const candidate of known) {
-    const distance = editDistance(path, candidate);
-    if (distance < bestDistance) {
-      best = candidate;
-      bestDistance = distance;
-    }
-  }
-  return best !== undefined && bestDistance <= Math.max(2, Math.floor(path.length / 3)) ? best : undefined;
+  return didYouMean(path, [...known]);
+}
+
+function stepsOf(path: string): PathStep[] {
+  const steps = parsePath(path);
+  if (!steps) throw new InputError(path, 'expected a parameter path like bank[0].esr or feed.inductance');
+  return steps;
+}
+
+/** The number at a path of a scenario; InputError naming the path if there is none. */
+export function getScenarioPath(scenario: Scenario, path: string): number {
+  const value = getPath(scenario, stepsOf(path));
+  if (value === undefined) throw new InputError(path, 'no such parameter in the scenario');
+  if (typeof value !== 'number') throw new InputError(path, 'is not a number in the scenario, so it cannot be fitted');
+  return value;
+}
+
+/** A new Scenario with one number replaced; the input is not modified (untouched sections are shared). */
+export function setScenarioPath(scenario: Scenario, path: string, value: number): Scenario {
+  getScenarioPath(scenario, path); // same checks and messages as reading
+  const steps = stepsOf(path);
+  const replace = (node: unknown, depth: number): unknown => {
+    if (depth === steps.length) return value;
+    const step = steps[depth]!;
+    if (Array.isArray(node)) return node.map((item, i) => (i === step ? replace(item, depth + 1) : item));
+    const record = node as Container;
+    return { ...record, [step]: replace(record[step], depth + 1) };
+  };
+  return replace(scenario, 0) as Scenario;
 }
