@@ -61,33 +61,30 @@ export interface Plant {
   /** ½ ρ_g C_d A_b, 0 without drag */
   dragFactor: number;
   initialEnergy: number;
+  /** branch resistance R_eff,k of each stage: R_esr + R (capacitor), R_D + R (crowbar) */
+  capacitorBranchResistance: number[];
+  crowbarBranchResistance: number[];
   /** state layout */
   index: StateIndex;
 }
 
 export interface StateIndex {
+  /** length of the integrated state: group currents and voltages, position, velocity */
   size: number;
   current: (g: number) => number;
   voltage: (g: number) => number;
   position: number;
   velocity: number;
-  /** first of the 10 loss quadratures, in LOSS_ORDER */
-  loss: number;
-  action: number;
-  impulse: number;
 }
 
 function stateIndex(groups: number): StateIndex {
   const position = 2 * groups;
   return {
-    size: 2 * groups + 14,
+    size: 2 * groups + 2,
     current: (g) => g,
     voltage: (g) => groups + g,
     position,
     velocity: position + 1,
-    loss: position + 2,
-    action: position + 12,
-    impulse: position + 13,
   };
 }
 
@@ -123,6 +120,8 @@ export function makePlant(scenario: Scenario): Plant {
     preload: scenario.friction.preload,
     magneticLoading: scenario.friction.magneticLoading,
     dragFactor: drag ? 0.5 * drag.gasDensity * drag.dragCoefficient * drag.boreArea : 0,
+    capacitorBranchResistance: bank.map((g) => (g.esr / g.count) + (g.resistance / g.count)),
+    crowbarBranchResistance: bank.map((g) => ((g.crowbar?.resistance ?? 0) / g.count) + (g.resistance / g.count)),
     initialEnergy: bank.reduce((sum, g) => sum + 0.5 * g.capacitance * g.count * g.voltage * g.voltage, 0),
     index: stateIndex(bank.length),
   };
@@ -141,12 +140,26 @@ export function initialMode(plant: Plant): Mode {
 
 export const isConducting = (stage: Stage): boolean => stage === Stage.Capacitor || stage === Stage.Crowbar;
 
+/**
+ * The state components that change in a mode: the current of each conducting group, the voltage of each group in
+ * its capacitor stage, position and velocity while the armature moves. Every other component is constant until
+ * the next event (a waiting or switched-off group, a crowbarred capacitor held at 0 V, an armature at rest), so
+ * the integrator need not carry it. Never empty: with nothing changing, the position is kept as a trivial state.
+ */
+export function evolvingComponents(plant: Plant, mode: Mode): number[] {
+  const ix = plant.index;
+  const components: number[] = [];
+  for (let g = 0; g < plant.groups; g++) if (isConducting(mode.stage[g]!)) components.push(ix.current(g));
+  for (let g = 0; g < plant.groups; g++) if (mode.stage[g] === Stage.Capacitor) components.push(ix.voltage(g));
+  if (mode.moving) components.push(ix.position, ix.velocity);
+  if (components.length === 0) components.push(ix.position);
+  return components;
+}
+
 /** Source voltage u_k and branch resistance R_eff,k of a conducting group in its stage. */
 function branch(plant: Plant, g: number, stage: Stage, capacitorVoltage: number): { source: number; resistance: number } {
-  if (stage === Stage.Crowbar) {
-    return { source: -plant.diodeDrop[g]!, resistance: plant.diodeResistance[g]! + plant.seriesResistance[g]! };
-  }
-  return { source: capacitorVoltage, resistance: plant.esr[g]! + plant.seriesResistance[g]! };
+  if (stage === Stage.Crowbar) return { source: -plant.diodeDrop[g]!, resistance: plant.crowbarBranchResistance[g]! };
+  return { source: capacitorVoltage, resistance: plant.capacitorBranchResistance[g]! };
 }
 
 export interface Bus {
@@ -208,126 +221,74 @@ export const normalForce = (plant: Plant, current: number): number =>
 export const electromagneticForce = (plant: Plant, current: number): number =>
   0.5 * plant.inductanceGradient * current * current;
 
-/** Net force on a moving armature and its parts. */
-export function armatureForces(plant: Plant, current: number, velocity: number): { em: number; friction: number; drag: number } {
-  return {
-    em: electromagneticForce(plant, current),
-    friction: plant.mu * normalForce(plant, current),
-    drag: plant.dragFactor * velocity * velocity,
-  };
-}
-
-/** dy/dt of the whole state (electrical, mechanical, ledger quadratures) in the given mode. */
+/** dy/dt of the state in the given mode, as a new array. */
 export function derivatives(plant: Plant, y: ArrayLike<number>, mode: Mode): number[] {
-  const ix = plant.index;
-  const dy = new Array<number>(ix.size).fill(0);
-  const bus = solveBus(plant, y, mode);
-  const current = bus.current;
-  let bankLoss = 0;
-  let crowbarLoss = 0;
-  let moduleLoss = 0;
-  for (let g = 0; g < plant.groups; g++) {
-    const stage = mode.stage[g]!;
-    if (!isConducting(stage)) continue;
-    const i = y[ix.current(g)]!;
-    const b = branch(plant, g, stage, y[ix.voltage(g)]!);
-    dy[ix.current(g)] = (b.source - b.resistance * i - bus.busVoltage) / plant.inductance[g]!;
-    if (stage === Stage.Capacitor) {
-      dy[ix.voltage(g)] = -i / plant.capacitance[g]!;
-      bankLoss += plant.esr[g]! * i * i;
-    } else {
-      crowbarLoss += plant.diodeResistance[g]! * i * i + plant.diodeDrop[g]! * i;
-    }
-    moduleLoss += plant.seriesResistance[g]! * i * i;
-  }
-  const x = y[ix.position]!;
-  const i2 = current * current;
-  const l = ix.loss;
-  dy[l] = bankLoss;
-  dy[l + 1] = crowbarLoss;
-  dy[l + 2] = moduleLoss;
-  dy[l + 3] = plant.feedResistance * i2;
-  dy[l + 4] = plant.resistanceGradient * x * i2;
-  dy[l + 5] = plant.armatureResistance * i2;
-  dy[l + 6] = plant.contactResistance * i2;
-  dy[l + 7] = bus.anyConducting ? plant.arcDrop * current : 0;
-  dy[ix.action] = i2;
-  if (mode.moving) {
-    const v = y[ix.velocity]!;
-    const f = armatureForces(plant, current, v);
-    const net = f.em - f.friction - f.drag;
-    dy[ix.position] = v;
-    dy[ix.velocity] = net / plant.mass;
-    dy[l + 8] = f.friction * v;
-    dy[l + 9] = f.drag * v;
-    dy[ix.impulse] = net;
-  }
+  const dy = new Array<number>(plant.index.size);
+  derivativesInto(plant, y, mode, dy);
   return dy;
 }
 
-/** Acceleration of the armature (0 at rest: static friction balances the force). */
-export function acceleration(plant: Plant, current: number, velocity: number, moving: boolean): number {
-  if (!moving) return 0;
-  const f = armatureForces(plant, current, velocity);
-  return (f.em - f.friction - f.drag) / plant.mass;
+/**
+ * dy/dt written into `out` (length index.size). This is the integrator's inner loop, so it solves the bus
+ * equation inline and allocates nothing; it computes exactly what solveBus and branch describe.
+ */
+export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, out: number[] | Float64Array): void {
+  const groups = plant.groups;
+  const stage = mode.stage;
+  const x = y[2 * groups]!;
+  const v = mode.moving ? y[2 * groups + 1]! : 0;
+  const inductanceGradient = plant.inductanceGradient;
+  const loopInductance = plant.feedInductance + inductanceGradient * x;
+  const loopResistance =
+    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
+  let conductance = 0;
+  let drive = 0;
+  let current = 0;
+  let anyConducting = false;
+  for (let g = 0; g < groups; g++) {
+    const s = stage[g]!;
+    out[g] = 0;
+    out[groups + g] = 0;
+    if (s !== Stage.Capacitor && s !== Stage.Crowbar) continue;
+    anyConducting = true;
+    const i = y[g]!;
+    const crowbar = s === Stage.Crowbar;
+    const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
+    const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
+    const invL = 1 / plant.inductance[g]!;
+    conductance += invL;
+    drive += (source - resistance * i) * invL;
+    current += i;
+  }
+  const loadDrop = (loopResistance + inductanceGradient * v) * current + plant.arcDrop;
+  const busVoltage = (loopInductance * drive + loadDrop) / (1 + loopInductance * conductance);
+  if (anyConducting) {
+    for (let g = 0; g < groups; g++) {
+      const s = stage[g]!;
+      if (s !== Stage.Capacitor && s !== Stage.Crowbar) continue;
+      const i = y[g]!;
+      const crowbar = s === Stage.Crowbar;
+      const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
+      const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
+      out[g] = (source - resistance * i - busVoltage) / plant.inductance[g]!;
+      if (!crowbar) out[groups + g] = -i / plant.capacitance[g]!;
+    }
+  } else {
+    current = 0;
+  }
+  if (mode.moving) {
+    const i2 = current * current;
+    const em = 0.5 * inductanceGradient * i2;
+    const friction = plant.mu * (plant.preload + plant.magneticLoading * i2);
+    const drag = plant.dragFactor * v * v;
+    out[2 * groups] = v;
+    out[2 * groups + 1] = (em - friction - drag) / plant.mass;
+  } else {
+    out[2 * groups] = 0;
+    out[2 * groups + 1] = 0;
+  }
 }
 
 /** Margin of the static-friction test: the armature starts when ½L′I² exceeds μ_s F_N (margin > 0). */
 export const startMargin = (plant: Plant, current: number): number =>
   electromagneticForce(plant, current) - plant.muStatic * normalForce(plant, current);
-
-/** Breech voltage V_b − (L_f dI/dt + R_f I); 0 with no module conducting. */
-export function breechVoltage(plant: Plant, bus: Bus): number {
-  if (!bus.anyConducting) return 0;
-  return bus.busVoltage - plant.feedInductance * bus.currentRate - plant.feedResistance * bus.current;
-}
-
-/** Muzzle (armature) voltage (R_a + R_c) I + V_arc; 0 with no module conducting. */
-export function muzzleVoltage(plant: Plant, bus: Bus): number {
-  if (!bus.anyConducting) return 0;
-  return (plant.armatureResistance + plant.contactResistance) * bus.current + plant.arcDrop;
-}
-
-export interface LedgerPoint {
-  capacitors: number;
-  magnetic: number;
-  magneticRails: number;
-  kinetic: number;
-  losses: number[];
-  residual: number;
-}
-
-/** The energy ledger of a state: E0 − (E_cap + E_mag + E_kin + W_loss) must stay ~0. */
-export function ledger(plant: Plant, y: ArrayLike<number>): LedgerPoint {
-  const ix = plant.index;
-  let capacitors = 0;
-  let moduleMagnetic = 0;
-  let current = 0;
-  for (let g = 0; g < plant.groups; g++) {
-    const v = y[ix.voltage(g)]!;
-    const i = y[ix.current(g)]!;
-    capacitors += 0.5 * plant.capacitance[g]! * v * v;
-    moduleMagnetic += 0.5 * plant.inductance[g]! * i * i;
-    current += i;
-  }
-  const loopInductance = plant.feedInductance + plant.inductanceGradient * y[ix.position]!;
-  const magneticRails = 0.5 * loopInductance * current * current;
-  const velocity = y[ix.velocity]!;
-  const kinetic = 0.5 * plant.mass * velocity * velocity;
-  const losses: number[] = [];
-  let lossSum = 0;
-  for (let k = 0; k < LOSS_ORDER.length; k++) {
-    const w = y[ix.loss + k]!;
-    losses.push(w);
-    lossSum += w;
-  }
-  const magnetic = moduleMagnetic + magneticRails;
-  return {
-    capacitors,
-    magnetic,
-    magneticRails,
-    kinetic,
-    losses,
-    residual: plant.initialEnergy - (capacitors + magnetic + kinetic + lossSum),
-  };
-}

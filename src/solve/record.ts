@@ -2,7 +2,8 @@
  * What the solver keeps while it integrates: waveform samples (uniform grid + both sides of every event)
  * and running peaks located on the dense output.
  */
-import { type Mode, type Plant, ledger, LOSS_ORDER } from '../model/plant.js';
+import { type Mode, type Plant, LOSS_ORDER } from '../model/plant.js';
+import { ledger } from '../model/ledger.js';
 import { observe, type Observables } from '../model/observables.js';
 import type { LossKey, Waveforms } from './types.js';
 import { brentRoot } from './roots.js';
@@ -24,11 +25,14 @@ export function createWaveformRecorder(plant: Plant) {
     energy: { capacitors: [], magnetic: [], kinetic: [], losses, residual: [] },
   };
   const ix = plant.index;
+  // the loss series by channel index: a keyed lookup per sample on the record was half the cost of recording
+  const lossSeries = LOSS_ORDER.map((k) => losses[k]);
   return {
     waveforms: w,
-    record(t: number, y: ArrayLike<number>, mode: Mode, seen?: Observables): void {
+    /** one sample: the state y and its quadratures q (layout QUADRATURE) at t */
+    record(t: number, y: ArrayLike<number>, q: ArrayLike<number>, mode: Mode, seen?: Observables): void {
       const o = seen ?? observe(plant, y, mode);
-      const e = ledger(plant, y);
+      const e = ledger(plant, y, q);
       w.t.push(t);
       w.current.push(o.current);
       for (let g = 0; g < groups; g++) {
@@ -44,7 +48,7 @@ export function createWaveformRecorder(plant: Plant) {
       w.energy.capacitors.push(e.capacitors);
       w.energy.magnetic.push(e.magnetic);
       w.energy.kinetic.push(e.kinetic);
-      LOSS_ORDER.forEach((k, n) => losses[k].push(e.losses[n]!));
+      for (let n = 0; n < lossSeries.length; n++) lossSeries[n]!.push(e.losses[n]!);
       w.energy.residual.push(e.residual);
     },
   };

@@ -1,0 +1,104 @@
+/**
+ * The energy ledger of the contract's §4 and the other quadratures of a shot (∫I²dt, the net-force impulse):
+ * their integrands at a state, and the ledger of a state with its quadratures. Pure.
+ */
+import { type Mode, type Plant, LOSS_ORDER, Stage } from './plant.js';
+
+/**
+ * Layout of the quadratures (the energy-loss channels in LOSS_ORDER, ∫I²dt and the net-force impulse). They are
+ * integrals of the state, not part of it: the solver integrates them on the dense output of each step, so the
+ * integrator's work (and its step control) covers only the 2G + 2 dynamic states.
+ */
+export const QUADRATURE = { loss: 0, action: LOSS_ORDER.length, impulse: LOSS_ORDER.length + 1, size: LOSS_ORDER.length + 2 } as const;
+
+/**
+ * The integrands of the quadratures (layout QUADRATURE) at a state: the power of every loss channel of the
+ * contract's §4, I² for the action integral, and the net force while moving (impulse). Written into `out`.
+ */
+export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: Mode, out: number[] | Float64Array): void {
+  const groups = plant.groups;
+  let bankLoss = 0;
+  let crowbarLoss = 0;
+  let moduleLoss = 0;
+  let current = 0;
+  let anyConducting = false;
+  for (let g = 0; g < groups; g++) {
+    const s = mode.stage[g]!;
+    if (s !== Stage.Capacitor && s !== Stage.Crowbar) continue;
+    anyConducting = true;
+    const i = y[g]!;
+    const i2 = i * i;
+    current += i;
+    if (s === Stage.Capacitor) bankLoss += plant.esr[g]! * i2;
+    else crowbarLoss += plant.diodeResistance[g]! * i2 + plant.diodeDrop[g]! * i;
+    moduleLoss += plant.seriesResistance[g]! * i2;
+  }
+  const x = y[2 * groups]!;
+  const i2 = current * current;
+  const l = QUADRATURE.loss;
+  out[l] = bankLoss;
+  out[l + 1] = crowbarLoss;
+  out[l + 2] = moduleLoss;
+  out[l + 3] = plant.feedResistance * i2;
+  out[l + 4] = plant.resistanceGradient * x * i2;
+  out[l + 5] = plant.armatureResistance * i2;
+  out[l + 6] = plant.contactResistance * i2;
+  out[l + 7] = anyConducting ? plant.arcDrop * current : 0;
+  out[QUADRATURE.action] = i2;
+  if (mode.moving) {
+    const v = y[2 * groups + 1]!;
+    const friction = plant.mu * (plant.preload + plant.magneticLoading * i2);
+    const drag = plant.dragFactor * v * v;
+    out[l + 8] = friction * v;
+    out[l + 9] = drag * v;
+    out[QUADRATURE.impulse] = 0.5 * plant.inductanceGradient * i2 - friction - drag;
+  } else {
+    out[l + 8] = 0;
+    out[l + 9] = 0;
+    out[QUADRATURE.impulse] = 0;
+  }
+}
+
+export interface LedgerPoint {
+  capacitors: number;
+  magnetic: number;
+  magneticRails: number;
+  kinetic: number;
+  losses: number[];
+  residual: number;
+}
+
+/** The energy ledger of a state and its quadratures: E0 − (E_cap + E_mag + E_kin + W_loss) must stay ~0. */
+export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLike<number>): LedgerPoint {
+  const ix = plant.index;
+  let capacitors = 0;
+  let moduleMagnetic = 0;
+  let current = 0;
+  for (let g = 0; g < plant.groups; g++) {
+    const v = y[ix.voltage(g)]!;
+    const i = y[ix.current(g)]!;
+    capacitors += 0.5 * plant.capacitance[g]! * v * v;
+    moduleMagnetic += 0.5 * plant.inductance[g]! * i * i;
+    current += i;
+  }
+  const loopInductance = plant.feedInductance + plant.inductanceGradient * y[ix.position]!;
+  const magneticRails = 0.5 * loopInductance * current * current;
+  const velocity = y[ix.velocity]!;
+  const kinetic = 0.5 * plant.mass * velocity * velocity;
+  const losses: number[] = [];
+  let lossSum = 0;
+  for (let k = 0; k < LOSS_ORDER.length; k++) {
+    const w = quadratures[QUADRATURE.loss + k]!;
+    losses.push(w);
+    lossSum += w;
+  }
+  const magnetic = moduleMagnetic + magneticRails;
+  return {
+    capacitors,
+    magnetic,
+    magneticRails,
+    kinetic,
+    losses,
+    residual: plant.initialEnergy - (capacitors + magnetic + kinetic + lossSum),
+  };
+}
