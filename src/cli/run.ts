@@ -51,18 +51,8 @@ function simulate(loaded: LoadedScenario, flags: RunFlags): Shot {
   const warnings = shotWarnings(loaded.scenario, shot);
   const checks = shotChecks(loaded.scenario, shot.results);
   if (flags.csv && shot.waveforms) writeExactFile(flags.csv, waveformCsv(loaded.scenario, shot.waveforms), '--csv');
-  let reportPath: string | null = null;
-  if (flags.report !== false) {
-    const html = buildShotReport({
-      scenarioRaw: loaded.raw,
-      scenario: loaded.scenario,
-      shot,
-      provenance: provenanceOf(shot, loaded.sha256),
-      warnings: warnings.map((w) => w.message),
-      checks,
-    });
-    reportPath = writeReport(html, typeof flags.report === 'string' ? flags.report : DEFAULT_REPORT_DIR, loaded);
-  }
+  const reportPath =
+    flags.report === false ? null : recordShot(loaded, shot, typeof flags.report === 'string' ? flags.report : DEFAULT_REPORT_DIR);
   if (flags.json) {
     const railsDerived = railsDerivedJson(loaded.scenario);
     const output = { ...shot.results, checks, ...(railsDerived ? { railsDerived } : {}) };
@@ -73,6 +63,19 @@ function simulate(loaded: LoadedScenario, flags: RunFlags): Shot {
     if (reportPath) process.stdout.write(`report: ${reportPath}\n`);
   }
   return shot;
+}
+
+/** Write the HTML record of a shot to `target` (a folder, or a new file ending in .html); returns its path. */
+export function recordShot(loaded: LoadedScenario, shot: Shot, target: string = DEFAULT_REPORT_DIR): string {
+  const html = buildShotReport({
+    scenarioRaw: loaded.raw,
+    scenario: loaded.scenario,
+    shot,
+    provenance: provenanceOf(shot, loaded.sha256),
+    warnings: shotWarnings(loaded.scenario, shot).map((w) => w.message),
+    checks: shotChecks(loaded.scenario, shot.results),
+  });
+  return writeReport(html, target, loaded);
 }
 
 function writeReport(html: string, target: string, loaded: LoadedScenario): string {

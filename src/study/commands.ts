@@ -7,10 +7,20 @@ import { availableParallelism } from 'node:os';
 import { basename, dirname, extname, join } from 'node:path';
 import type { Command } from 'commander';
 import { InputError } from '../scenario/errors.js';
-import { dimensionOfPath, loadScenarioFile, validateScenario } from '../scenario/load.js';
+import { dimensionOfPath, loadScenarioFile, loadScenarioText, validateScenario } from '../scenario/load.js';
+import { setRawPath } from '../measure/calibrated.js';
+import { recordShot } from '../cli/run.js';
 import type { Scenario } from '../scenario/types.js';
 import { runShot } from '../solve/shot.js';
 import { compareScenarios, compareTable } from './compare.js';
+import { existsSync as pathExists, mkdirSync, statSync } from 'node:fs';
+import { inFile } from '../cli/errors.js';
+import { DEFAULT_REPORT_DIR } from '../cli/run.js';
+import { recordTag, reportDate, sha256 } from '../output/provenance.js';
+import { buildComparisonReport, comparisonBaseName, type ComparisonEntry } from '../report/compare.js';
+import { writeExactFile, writeNewFile } from '../report/write.js';
+import { shotWarnings } from '../solve/warnings.js';
+import { TOOL_VERSION } from '../version.js';
 import { DESIGN_KINDS, type DesignKind } from './design.js';
 import { merge } from './merge.js';
 import { writeNewFileAtomic } from './output.js';
@@ -115,16 +125,24 @@ function describeSizing(result: SizingResult): string[] {
   return lines;
 }
 
-/** The sized scenario as a scenario file (SI numbers). */
-export function sizedScenarioJson(scenario: Scenario, from: { file: string; name: string; sha256: string }, result: SizingResult): string {
-  const copy: Record<string, unknown> = structuredClone(scenario) as unknown as Record<string, unknown>;
-  if (copy.drag === null) delete copy.drag;
+/**
+ * The sized scenario as a scenario file: the user's file as written, with each group's count, charge voltage
+ * and trigger replaced by the sized values (SI numbers), so geometry, materials and limits carry over.
+ */
+export function sizedScenarioJson(raw: Record<string, unknown>, from: { file: string; name: string; sha256: string }, result: SizingResult): string {
+  const copy = structuredClone(raw);
+  const sized = result.scenario!;
+  sized.bank.forEach((group, g) => {
+    setRawPath(copy, `bank[${g}].count`, group.count);
+    setRawPath(copy, `bank[${g}].voltage`, group.voltage);
+    setRawPath(copy, `bank[${g}].trigger`, group.trigger);
+  });
   copy.name = `${from.name} (sized)`;
-  copy.description = `Sized by railpulse size from ${from.file} (sha256 ${from.sha256.slice(0, 16)}…) for ${result.targetVelocity.toPrecision(6)} m/s at exit: ${result.best?.modulesPerGroup} module(s) per group, least stored energy within the limits. SI units.`;
+  copy.description = `Sized by railpulse size from ${from.file} (sha256 ${from.sha256.slice(0, 16)}…) for ${result.targetVelocity.toPrecision(6)} m/s at exit: ${result.best?.modulesPerGroup} module(s) per group, least stored energy within the limits; counts, voltages (V) and triggers (s) in SI.`;
   return `${JSON.stringify(copy, null, 2)}\n`;
 }
 
-export async function sizeCommand(file: string, flags: { out?: string; json?: boolean }): Promise<SizingResult> {
+export async function sizeCommand(file: string, flags: { out?: string; json?: boolean; report?: string | boolean }): Promise<SizingResult> {
   const input = readSizingInput(file);
   say('sizing…');
   const result = sizeBank(input.scenario, input.target, input.limits, runShot);
@@ -132,8 +150,11 @@ export async function sizeCommand(file: string, flags: { out?: string; json?: bo
   let written: string | null = null;
   if (result.scenario) {
     written = flags.out ?? join(dirname(file), `${basename(file, extname(file))}.sized-${input.sha256.slice(0, 8)}.json`);
-    writeNewFileAtomic(written, sizedScenarioJson(result.scenario, { file, name: input.scenario.name, sha256: input.sha256 }, result));
+    const json = sizedScenarioJson(input.raw, { file, name: input.scenario.name, sha256: input.sha256 }, result);
+    const sized = loadScenarioText(json, written); // the file must load like any scenario before it is written
+    writeNewFileAtomic(written, json);
     say(`wrote ${written}`);
+    if (flags.report !== false) say(`report: ${recordShot(sized, runShot(sized.scenario), typeof flags.report === 'string' ? flags.report : undefined)}`);
   }
   if (flags.json) process.stdout.write(`${JSON.stringify({ ...result, written }, null, 2)}\n`);
   if (!result.feasible) process.exitCode = 1;
@@ -169,18 +190,45 @@ export function registerStudyCommands(program: Command): void {
     });
   program
     .command('compare <scenarios...>')
-    .description('run several scenarios and compare their figures with the first')
+    .description('run several scenarios, compare their figures with the first, and write one HTML comparison report')
     .option('--json', 'print the comparison as JSON on stdout')
-    .action((files: string[], flags: { json?: boolean }) => {
-      const shots = compareScenarios(files.map((file) => ({ file, scenario: loadScenarioFile(file).scenario })), runShot);
+    .option('--report <path>', `where to write the HTML comparison: a folder, or a new file ending in .html (default: ${DEFAULT_REPORT_DIR}/)`)
+    .option('--no-report', 'do not write the HTML comparison')
+    .action((files: string[], flags: { json?: boolean; report: string | boolean }) => {
+      const loaded = files.map((file) => loadScenarioFile(file));
+      // One shot per scenario, with waveforms only when a report is wanted; the table reads the same shots.
+      const shotsByScenario = new Map(loaded.map((l) => [l.scenario, inFile(l.file, () => runShot(l.scenario, { waveforms: flags.report !== false }))]));
+      const shots = compareScenarios(loaded, (scenario) => shotsByScenario.get(scenario) ?? runShot(scenario, { waveforms: false }));
+      let reportPath: string | null = null;
+      if (flags.report !== false) {
+        const entries: ComparisonEntry[] = loaded.map((l) => {
+          const shot = shotsByScenario.get(l.scenario)!;
+          return { file: l.file, scenarioRaw: l.raw, scenario: l.scenario, shot, sha256: l.sha256, warnings: shotWarnings(l.scenario, shot).map((w) => w.message) };
+        });
+        const date = reportDate();
+        const html = buildComparisonReport(entries, { toolVersion: TOOL_VERSION, nodeVersion: process.version, date });
+        const target = typeof flags.report === 'string' ? flags.report : DEFAULT_REPORT_DIR;
+        if (target.toLowerCase().endsWith('.html')) {
+          writeExactFile(target, html, '--report');
+          reportPath = target;
+        } else {
+          if (pathExists(target) && !statSync(target).isDirectory()) throw new InputError('--report', `${target} is a file; give a folder or a new file name ending in .html`);
+          mkdirSync(target, { recursive: true });
+          const tag = recordTag(sha256(loaded.map((l) => l.sha256).join('\n')));
+          reportPath = writeNewFile(target, comparisonBaseName(date, loaded.map((l) => l.scenario.name), tag), '.html', html);
+        }
+      }
       process.stdout.write(flags.json ? `${JSON.stringify(shots, null, 2)}\n` : `${compareTable(shots)}\n`);
+      if (reportPath) (flags.json ? say : (line: string) => process.stdout.write(`${line}\n`))(`report: ${reportPath}`);
     });
   program
     .command('size <scenario>')
     .description("size the bank for the scenario's target (least stored energy within its limits)")
     .option('--out <file>', 'the sized scenario (default: <scenario>.sized-<hash>.json beside it)')
     .option('--json', 'print the sizing result as JSON on stdout')
-    .action(async (scenario: string, flags: { out?: string; json?: boolean }) => {
+    .option('--report <path>', 'where to write the shot record of the sized design (default reports/)')
+    .option('--no-report', 'do not write the shot record')
+    .action(async (scenario: string, flags: { out?: string; json?: boolean; report?: string | boolean }) => {
       await sizeCommand(scenario, flags);
     });
 }

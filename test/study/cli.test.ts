@@ -79,9 +79,12 @@ describe('study commands', () => {
     const feasible = join(root, 'size-ok.json');
     writeFileSync(feasible, JSON.stringify({ ...raw, target: { muzzleVelocity: '80 m/s' }, limits: { modulesPerGroup: 1, chargeVoltage: '20 kV' } }));
     const out = join(root, 'sized.json');
-    const ok = run(['size', feasible, '--out', out]);
+    const ok = run(['size', feasible, '--out', out, '--report', root]);
     expect(ok.status).toBe(0);
     expect(ok.stderr).toMatch(/^sized: 1 module\(s\) per group/m);
+    // and the shot record of the sized design
+    const record = /^report: (.*\.html)$/m.exec(ok.stderr)?.[1];
+    expect(record && existsSync(record)).toBe(true);
     const sized = loadScenarioFile(out);
     expect(sized.scenario.description).toMatch(/Sized by railpulse size from/);
     const velocity = runShot(sized.scenario, { waveforms: false }).results.muzzleVelocity;
