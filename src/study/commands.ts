@@ -9,13 +9,12 @@ import type { Command } from 'commander';
 import { InputError } from '../scenario/errors.js';
 import { dimensionOfPath, loadScenarioFile, loadScenarioText, validateScenario } from '../scenario/load.js';
 import { setRawPath } from '../measure/calibrated.js';
-import { recordShot } from '../cli/run.js';
+import { DEFAULT_REPORT_DIR, recordShot } from '../cli/run.js';
 import type { Scenario } from '../scenario/types.js';
 import { runShot } from '../solve/shot.js';
 import { compareScenarios, compareTable } from './compare.js';
-import { existsSync as pathExists, mkdirSync, statSync } from 'node:fs';
+import { mkdirSync, statSync } from 'node:fs';
 import { inFile } from '../cli/errors.js';
-import { DEFAULT_REPORT_DIR } from '../cli/run.js';
 import { recordTag, reportDate, sha256 } from '../output/provenance.js';
 import { buildComparisonReport, comparisonBaseName, type ComparisonEntry } from '../report/compare.js';
 import { writeExactFile, writeNewFile } from '../report/write.js';
@@ -212,7 +211,7 @@ export function registerStudyCommands(program: Command): void {
           writeExactFile(target, html, '--report');
           reportPath = target;
         } else {
-          if (pathExists(target) && !statSync(target).isDirectory()) throw new InputError('--report', `${target} is a file; give a folder or a new file name ending in .html`);
+          if (existsSync(target) && !statSync(target).isDirectory()) throw new InputError('--report', `${target} is a file; give a folder or a new file name ending in .html`);
           mkdirSync(target, { recursive: true });
           const tag = recordTag(sha256(loaded.map((l) => l.sha256).join('\n')));
           reportPath = writeNewFile(target, comparisonBaseName(date, loaded.map((l) => l.scenario.name), tag), '.html', html);
