@@ -91,7 +91,7 @@ const PAGE_SCRIPT = `
         { x: pick(x, ok), y: pick(y, ok), mode: 'lines+markers', name: f.label },
         { x: pick(x, bad), y: pick(y, bad).map(function (v) { return v === null ? 0 : v; }), mode: 'markers', name: 'failed',
           marker: { symbol: 'x', color: '#c0392b', size: 9 }, text: pick(data.reasons, bad) }
-      ], { title: f.label + ' (' + f.unit + ')', xaxis: { title: data.paths[0] + ' (SI)' }, yaxis: { title: f.unit } }, config);
+      ], { title: { text: f.label + ' (' + f.unit + ')' }, xaxis: { title: { text: data.paths[0] + ' (SI)' } }, yaxis: { title: { text: f.unit } } }, config);
     });
   } else if (mode === 'heatmap') {
     var xs = Array.from(new Set(data.axes[1])).sort(function (a, b) { return a - b; });
@@ -105,18 +105,18 @@ const PAGE_SCRIPT = `
         if (data.failed[i]) { failX.push(data.axes[1][i]); failY.push(yv); }
       });
       Plotly.newPlot(panel(), [
-        { type: 'heatmap', x: xs, y: ys, z: z, colorbar: { title: f.unit } },
+        { type: 'heatmap', x: xs, y: ys, z: z, colorbar: { title: { text: f.unit } } },
         { x: failX, y: failY, mode: 'markers', name: 'failed', marker: { symbol: 'x', color: '#c0392b', size: 9 } }
-      ], { title: f.label + ' (' + f.unit + ')', xaxis: { title: data.paths[1] + ' (SI)' }, yaxis: { title: data.paths[0] + ' (SI)' } }, config);
+      ], { title: { text: f.label + ' (' + f.unit + ')' }, xaxis: { title: { text: data.paths[1] + ' (SI)' } }, yaxis: { title: { text: data.paths[0] + ' (SI)' } } }, config);
     });
   } else {
     var dims = data.paths.map(function (p, d) { return { label: p, values: data.axes[d] }; });
     figures.forEach(function (f) { dims.push({ label: f.label + ' (' + f.unit + ')', values: data.figures[f.key] }); });
     Plotly.newPlot(panel(), [{ type: 'splom', dimensions: dims, showupperhalf: false,
       marker: { size: 4, color: data.failed.map(function (b, i) { return b ? null : data.figures.muzzleVelocity[i]; }),
-        colorscale: 'Viridis', showscale: true, colorbar: { title: 'm/s' },
+        colorscale: 'Viridis', showscale: true, colorbar: { title: { text: 'm/s' } },
         symbol: data.failed.map(function (b) { return b ? 'x' : 'circle'; }) } }],
-      { title: 'all points (failed: ×)', height: 900 }, config);
+      { title: { text: 'all points (failed: ×)' }, height: 900 }, config);
   }
 })();
 `;

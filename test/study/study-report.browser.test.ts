@@ -57,6 +57,9 @@ describe('study report in Chromium', () => {
     expect(points).toEqual(STUDY_FIGURES.map(() => [exited, POINTS - exited]));
     const legends = await page.locator('#plots .js-plotly-plot').first().locator('.legendtext').allTextContents();
     expect(legends).toEqual([STUDY_FIGURES[0]!.label, 'failed']);
+    // every plot carries its title with the unit, and axis titles
+    expect(await page.locator('#plots .gtitle').allTextContents()).toEqual(STUDY_FIGURES.map((f) => `${f.label} (${f.unit})`));
+    expect(await page.locator('#plots .xtitle').count()).toBe(STUDY_FIGURES.length);
   });
 
   it('plots the muzzle velocities of points.jsonl, rising with charge voltage', async () => {
