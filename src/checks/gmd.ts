@@ -8,6 +8,7 @@
  * (derived here by integrating ln r four times; terms linear in x or y, which the differences cancel,
  * dropped; G is even in x and y, so it serves every quadrant).
  */
+import { gaussLegendre } from '../solve/quadrature.js';
 
 function fourthAntiderivative(x: number, y: number): number {
   const x2 = x * x;
@@ -58,7 +59,10 @@ export function logGeometricMeanDistance(a: Rectangle, b: Rectangle): number {
  * to rounding.
  */
 export function logGeometricMeanDistanceByQuadrature(a: Rectangle, b: Rectangle, order = 16): number {
-  const [nodes, weights] = gaussLegendre(order);
+  // the rule on [0, 1] mapped to [−1, 1]
+  const rule = gaussLegendre(order);
+  const nodes = Array.from(rule.nodes, (u) => 2 * u - 1);
+  const weights = Array.from(rule.weights, (w) => 2 * w);
   const map = (iv: Interval) =>
     nodes.map((t) => 0.5 * (iv.low + iv.high) + 0.5 * (iv.high - iv.low) * t);
   const ax = map(a.x);
@@ -79,31 +83,6 @@ export function logGeometricMeanDistanceByQuadrature(a: Rectangle, b: Rectangle,
   return sum / 16; // the weights sum to 2 on [−1, 1] in each of the four dimensions
 }
 
-/** Gauss–Legendre nodes and weights on [−1, 1] (Newton iteration on P_n). */
-export function gaussLegendre(order: number): [number[], number[]] {
-  const nodes: number[] = [];
-  const weights: number[] = [];
-  for (let i = 1; i <= order; i++) {
-    let x = Math.cos((Math.PI * (i - 0.25)) / (order + 0.5));
-    let derivative = 0;
-    for (let iteration = 0; iteration < 100; iteration++) {
-      let p0 = 1;
-      let p1 = x;
-      for (let k = 2; k <= order; k++) {
-        const p2 = ((2 * k - 1) * x * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      derivative = (order * (x * p1 - p0)) / (x * x - 1);
-      const step = p1 / derivative;
-      x -= step;
-      if (Math.abs(step) < 1e-16) break;
-    }
-    nodes.push(x);
-    weights.push(2 / ((1 - x * x) * derivative * derivative));
-  }
-  return [nodes, weights];
-}
 
 /**
  * ln(GMD_between / GMR_self) for two identical bars of height h (y) and width w (x) with inner faces a
