@@ -8,7 +8,7 @@ import type { Scenario } from '../scenario/types.js';
 import type { Shot, Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { formatPercent, scaleFor, type Scale } from './format.js';
-import { energyBudgetParts, type PlotFigure } from './plots.js';
+import { axis, baseLayout, energyBudgetParts, maxAbs, round6, type PlotFigure } from './plots.js';
 
 export interface ComparedShotInput {
   scenario: Scenario;
@@ -26,41 +26,12 @@ export function plotlyText(text: unknown): string {
   return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 }
 
-function round6(value: number): number | null {
-  if (!Number.isFinite(value)) return null;
-  const rounded = Number(value.toPrecision(6));
-  return rounded === 0 ? 0 : rounded;
-}
 
-function maxAbs(series: ReadonlyArray<ArrayLike<number>>): number {
-  let max = 0;
-  for (const values of series) {
-    for (let i = 0; i < values.length; i++) {
-      const v = Math.abs(values[i]!);
-      if (Number.isFinite(v) && v > max) max = v;
-    }
-  }
-  return max;
-}
 
-function axis(title: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
-  return { title: { text: title }, showline: true, linecolor: '#222', mirror: true, ticks: 'outside', gridcolor: '#e3e3e3', zeroline: true, zerolinecolor: '#9a9a9a', ...extra };
-}
 
-function layout(xTitle: string, yTitle: string, height = 360): Record<string, unknown> {
-  return {
-    height,
-    margin: { l: 72, r: 24, t: 12, b: 56 },
-    font: { family: 'Helvetica, Arial, sans-serif', size: 12, color: '#111' },
-    paper_bgcolor: '#fff',
-    plot_bgcolor: '#fff',
-    hovermode: 'closest',
-    showlegend: true,
-    legend: { orientation: 'h', x: 0, y: -0.2, yanchor: 'top' },
-    xaxis: axis(xTitle),
-    yaxis: axis(yTitle),
-  };
-}
+
+const layout = (xTitle: string, yTitle: string, height = 360): Record<string, unknown> =>
+  baseLayout(xTitle, yTitle, height, { hovermode: 'closest', legend: { orientation: 'h', x: 0, y: -0.2, yanchor: 'top' } });
 
 interface Series {
   /** index of the scenario: its colour */

@@ -11,7 +11,7 @@ import type { Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
 import { formatPlain, formatQuantity, scaleFor, NO_VALUE, type Scale } from './format.js';
-import type { PlotFigure } from './plots.js';
+import { axis, baseLayout, maxAbs, round6, type PlotFigure } from './plots.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
 
@@ -52,35 +52,18 @@ const SIGNALS: Record<SignalName, { key: 'current' | 'breechVoltage' | 'muzzleVo
 const MODEL_COLOUR = '#1f3b73';
 const MEASURED_COLOUR = '#b8430e';
 
-function round6(value: number): number | null {
-  if (!Number.isFinite(value)) return null;
-  const rounded = Number(value.toPrecision(6));
-  return rounded === 0 ? 0 : rounded;
-}
 
 const scaleAll = (values: readonly number[], scale: Scale): (number | null)[] => values.map((v) => round6(v * scale.factor));
 
-function maxAbs(values: readonly number[]): number {
-  return values.reduce((m, v) => (Number.isFinite(v) && Math.abs(v) > m ? Math.abs(v) : m), 0);
-}
-
-function axis(title: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
-  return { title: { text: title }, showline: true, linecolor: '#222', mirror: true, ticks: 'outside', gridcolor: '#e3e3e3', zeroline: true, zerolinecolor: '#9a9a9a', ...extra };
-}
-
-function layoutFor(timeTitle: string, height: number): Record<string, unknown> {
-  return {
-    height,
-    margin: { l: 72, r: 24, t: 12, b: 56 },
-    font: { family: 'Helvetica, Arial, sans-serif', size: 12, color: '#111' },
-    paper_bgcolor: '#fff',
-    plot_bgcolor: '#fff',
-    hovermode: 'x',
-    showlegend: true,
+const layoutFor = (timeTitle: string, height: number): Record<string, unknown> => {
+  const { yaxis: _unused, ...layout } = baseLayout(timeTitle, '', height, {
     legend: { orientation: 'h', x: 0, y: -0.16, yanchor: 'top' },
     xaxis: axis(timeTitle, { anchor: 'y2' }),
-  };
-}
+  });
+  return layout;
+};
+
+
 
 /** One signal: simulated and measured on top, the residual at the measured samples underneath. */
 function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measurement, time: Scale, decimate: DecimateOptions): PlotFigure | undefined {
@@ -88,7 +71,7 @@ function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measu
   if (!measured) return undefined;
   const spec = SIGNALS[name];
   const model = waveforms[spec.key];
-  const yScale = scaleFor(Math.max(maxAbs(model), maxAbs(measured)));
+  const yScale = scaleFor(Math.max(maxAbs([model]), maxAbs([measured])));
   const modelIdx = decimateIndices(waveforms.t, [model], decimate);
   const measuredIdx = decimateIndices(measurement.t, [measured], decimate);
   // residuals only where the model exists: outside its span a held end value would be a made-up number
@@ -99,7 +82,7 @@ function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measu
   const modelAt = interpolateSorted(waveforms.t, model, insideT);
   const residual = modelAt.map((v, k) => v - measured[inside[k]!]!);
   const residualIdx = decimateIndices(insideT, [residual], decimate);
-  const rScale = scaleFor(maxAbs(residual));
+  const rScale = scaleFor(maxAbs([residual]));
   const layout = layoutFor(`Time (${time.prefix}s)`, 460);
   layout['yaxis'] = axis(`${spec.label} (${yScale.prefix}${spec.unit})`, { domain: [0.36, 1] });
   layout['yaxis2'] = axis(`residual (${rScale.prefix}${spec.unit})`, { domain: [0, 0.26] });
@@ -120,7 +103,7 @@ function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measu
 
 function positionFigure(waveforms: Waveforms, positions: PositionPoints, time: Scale, decimate: DecimateOptions): PlotFigure {
   const idx = decimateIndices(waveforms.t, [waveforms.position], decimate);
-  const xScale = scaleFor(Math.max(maxAbs(waveforms.position), maxAbs(positions.x)));
+  const xScale = scaleFor(Math.max(maxAbs([waveforms.position]), maxAbs([positions.x])));
   const layout = layoutFor(`Time (${time.prefix}s)`, 340);
   layout['xaxis'] = axis(`Time (${time.prefix}s)`);
   layout['yaxis'] = axis(`Position (${xScale.prefix}m)`);

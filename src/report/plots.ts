@@ -37,13 +37,14 @@ export const LOSS_LABELS: Record<LossKey, string> = {
 };
 
 /** 6 significant figures; -0 becomes 0 so the JSON stays short and stable. */
-function round6(value: number): number | null {
+export function round6(value: number): number | null {
   if (!Number.isFinite(value)) return null;
   const rounded = Number(value.toPrecision(6));
   return rounded === 0 ? 0 : rounded;
 }
 
-function maxAbs(series: ReadonlyArray<ArrayLike<number>>): number {
+/** Largest finite magnitude over several series (chooses a plot's SI prefix). */
+export function maxAbs(series: ReadonlyArray<ArrayLike<number>>): number {
   let max = 0;
   for (const values of series) {
     for (let i = 0; i < values.length; i++) {
@@ -65,7 +66,8 @@ const COLOURS = [
 ];
 const colour = (i: number): string => COLOURS[i % COLOURS.length]!;
 
-function axis(title: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
+/** A plotly axis in the records' style. */
+export function axis(title: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
   return {
     title: { text: title },
     showline: true,
@@ -79,7 +81,8 @@ function axis(title: string, extra: Record<string, unknown> = {}): Record<string
   };
 }
 
-function baseLayout(timeTitle: string, yTitle: string, height = 340): Record<string, unknown> {
+/** A plotly layout in the records' style; `overrides` replace top-level keys. */
+export function baseLayout(timeTitle: string, yTitle: string, height = 340, overrides: Record<string, unknown> = {}): Record<string, unknown> {
   return {
     height,
     margin: { l: 72, r: 24, t: 12, b: 56 },
@@ -91,6 +94,7 @@ function baseLayout(timeTitle: string, yTitle: string, height = 340): Record<str
     legend: { orientation: 'h', x: 0, y: -0.22, yanchor: 'top' },
     xaxis: axis(timeTitle),
     yaxis: axis(yTitle),
+    ...overrides,
   };
 }
 
