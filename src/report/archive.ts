@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { readEmbedded, type EmbeddedReport } from './embedded.js';
 import { escapeHtml } from './escape.js';
 import { formatPercent, formatQuantity, formatScientific } from './format.js';
-import { RECORD_CSP, RECORD_CSS } from './styles.js';
+import { pageStart } from './styles.js';
 
 export interface ArchiveEntry {
   /** file name of the report, relative to the index */
@@ -180,14 +180,7 @@ export function buildArchiveIndex(entries: ArchiveEntry[], options: ArchiveOptio
       `<th scope="col" class="sortable${c.numeric ? ' num' : ''}" tabindex="0" data-column="${c.key}" data-type="${c.numeric ? 'number' : 'text'}">${escapeHtml(c.title)}</th>`,
   ).join('');
   const rows = ordered.map(row).join('\n');
-  return `<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${RECORD_CSP}">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${escapeHtml(title)} \u2014 railpulse</title>
-<style>${RECORD_CSS}</style>
+  return `${pageStart(`${title} \u2014 railpulse`)}
 </head>
 <body>
 <main class="wide">

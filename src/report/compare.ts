@@ -13,7 +13,7 @@ import { inputRows, type Leaf } from './inputs.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
 import type { PlotFigure } from './plots.js';
 import { bankEnergies } from './safety.js';
-import { RECORD_CSP, RECORD_CSS } from './styles.js';
+import { pageStart } from './styles.js';
 import { reportBaseName } from './write.js';
 
 export interface ComparisonEntry {
@@ -269,15 +269,7 @@ export function buildComparisonReport(entries: ReadonlyArray<ComparisonEntry>, p
   };
   const title = entries.map((e) => e.scenario.name).join(' vs ');
   const unsampled = entries.flatMap((e, i) => (e.shot.waveforms && e.shot.waveforms.t.length > 0 ? [] : [names[i]!]));
-  return `<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${RECORD_CSP}">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="railpulse ${escapeHtml(provenance.toolVersion)}">
-<title>${escapeHtml(title)} \u2014 railpulse comparison</title>
-<style>${RECORD_CSS}${COMPARE_CSS}</style>
+  return `${pageStart(`${title} \u2014 railpulse comparison`, { generator: `railpulse ${provenance.toolVersion}`, css: COMPARE_CSS })}
 ${jsonScriptElement(COMPARISON_ELEMENT_ID, embedded)}
 </head>
 <body data-plots="pending">

@@ -21,7 +21,7 @@ import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
 import { energyBudgetParts, shotFigures, type PlotFigure } from './plots.js';
 import { overlayElement, overlayFigures, overlaySection, type OverlayInput } from './overlay.js';
 import { safetySection } from './safety.js';
-import { RECORD_CSP, RECORD_CSS } from './styles.js';
+import { pageStart } from './styles.js';
 import { checksSection, eventsSection, inputsSection, modulesSection, provenanceSection } from './tables.js';
 
 export { readEmbedded, type EmbeddedReport, type ReportCheck, type ReportProvenance } from './embedded.js';
@@ -195,15 +195,7 @@ export function buildShotReport(input: ShotReportInput): string {
   };
   const overlayPlots = input.overlay ? overlayFigures(shot.waveforms, input.overlay, input.decimate) : [];
   const plotData = [...overlayPlots, ...figures].map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
-  return `<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${RECORD_CSP}">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="railpulse ${escapeHtml(provenance.toolVersion)}">
-<title>${escapeHtml(scenario.name)} \u2014 railpulse shot record</title>
-<style>${RECORD_CSS}</style>
+  return `${pageStart(`${scenario.name} \u2014 railpulse shot record`, { generator: `railpulse ${provenance.toolVersion}` })}
 ${embeddedElements(block, input.scenarioRaw)}${input.overlay ? `\n${overlayElement(input.overlay)}` : ''}
 </head>
 <body data-plots="pending">

@@ -1,3 +1,4 @@
+import { escapeHtml } from './escape.js';
 /**
  * Page style shared by the shot report and the archive index: a plain, print-friendly record.
  * Black on white, thin rules, one accent colour; nothing that needs a font or image from outside.
@@ -68,3 +69,18 @@ th[aria-sort=ascending]:after{content:" \\25B2";color:#111}th[aria-sort=descendi
 
 /** The Content-Security-Policy every generated page carries: nothing may be fetched from anywhere. */
 export const RECORD_CSP = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data:";
+
+/**
+ * The opening of every railpulse page up to its styles: doctype, the CSP that forbids network access, the
+ * generator and the (escaped) title. The caller adds its embedded data and closes the head.
+ */
+export function pageStart(title: string, options: { generator?: string; css?: string } = {}): string {
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="${RECORD_CSP}">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+${options.generator ? `<meta name="generator" content="${escapeHtml(options.generator)}">\n` : ''}<title>${escapeHtml(title)}</title>
+<style>${RECORD_CSS}${options.css ?? ''}</style>`;
+}
