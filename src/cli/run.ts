@@ -47,7 +47,9 @@ export function registerRun(program: Command): void {
 }
 
 function simulate(loaded: LoadedScenario, flags: RunFlags): Shot {
-  const shot = inFile(loaded.file, () => runShot(loaded.scenario));
+  // Waveforms feed the record, the CSV and the summary's ledger check over every sample; JSON alone needs none.
+  const waveforms = flags.report !== false || Boolean(flags.csv) || !flags.json;
+  const shot = inFile(loaded.file, () => runShot(loaded.scenario, { waveforms }));
   const warnings = shotWarnings(loaded.scenario, shot);
   const checks = shotChecks(loaded.scenario, shot.results);
   if (flags.csv && shot.waveforms) writeExactFile(flags.csv, waveformCsv(loaded.scenario, shot.waveforms), '--csv');
