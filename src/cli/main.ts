@@ -10,7 +10,7 @@ import { registerMeasureCommands } from './measure.js';
 import { registerStudyCommands } from '../study/commands.js';
 import { TOOL_VERSION } from '../version.js';
 
-function main(argv: string[]): void {
+async function main(argv: string[]): Promise<void> {
   const program = new Command();
   program
     .name('railpulse')
@@ -23,7 +23,8 @@ function main(argv: string[]): void {
   registerMeasureCommands(program);
   registerStudyCommands(program);
   try {
-    program.parse(argv);
+    // async: sweep and size await their workers; their errors must reach handle() like any other
+    await program.parseAsync(argv);
   } catch (error) {
     handle(error);
   }
@@ -44,4 +45,5 @@ export function handle(error: unknown): never {
 }
 
 process.on('uncaughtException', handle);
-main(process.argv);
+process.on('unhandledRejection', handle);
+await main(process.argv);

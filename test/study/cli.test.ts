@@ -11,7 +11,7 @@ import { csvLine, rowLayout } from '../../src/study/rows.js';
 import { TWO_GROUP_FILE } from './fixtures.js';
 
 // Until src/cli/main.ts registers the study commands, the tests run them through a small entry of their own.
-const ENTRY = ['--import', 'tsx', 'test/study/study-cli.ts'];
+const ENTRY = ['bin/railpulse.js'];
 const root = mkdtempSync(join(tmpdir(), 'railpulse-cli-'));
 
 function run(args: string[]) {
