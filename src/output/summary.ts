@@ -7,7 +7,7 @@ import { formatPercent, formatSI, STANDARD_GRAVITY } from '../units/format.js';
 import type { Check } from '../checks/engineering.js';
 
 function formatValue(value: number, unit: string): string {
-  if (unit === '' || unit === '1') return value.toPrecision(3);
+  if (unit === '' || unit === '1') return formatPercent(value);
   if (unit === '%') return `${value.toPrecision(3)} %`;
   if (/^[A-JL-Za-zΩ]+$/.test(unit)) return formatSI(value, unit);
   return `${value.toPrecision(3)} ${unit}`;

@@ -6,7 +6,7 @@ import type { Scenario } from '../scenario/types.js';
 import type { ShotEvent, ShotResults } from '../solve/types.js';
 import type { ReportCheck, ReportProvenance } from './embedded.js';
 import { escapeHtml } from './escape.js';
-import { formatPercent, formatPlain, formatQuantity, NO_VALUE } from './format.js';
+import { formatPercent, formatPlain, formatQuantity, formatScientific, NO_VALUE } from './format.js';
 import { inputRows, type Leaf } from './inputs.js';
 
 function section(id: string, title: string, body: string): string {
@@ -51,8 +51,16 @@ export function eventsSection(events: ShotEvent[], results: ShotResults): string
   );
 }
 
+/**
+ * A check's figure in its unit: fractions as per cent, kelvin and compound units without an SI prefix
+ * (a "kK" or "GA²·s/m⁴" reads badly), simple units with one.
+ */
 function checkValue(value: number | null, unit: string): string {
-  return value === null ? NO_VALUE : formatQuantity(value, unit);
+  if (value === null) return NO_VALUE;
+  if (unit === '' || unit === '1') return formatPercent(value);
+  if (unit === 'K') return formatQuantity(value, unit, { prefix: false });
+  if (/[²³⁴·/^]/.test(unit)) return formatScientific(value, unit, 3);
+  return formatQuantity(value, unit);
 }
 
 export function checksSection(checks: ReportCheck[] | undefined): string {
