@@ -2,7 +2,10 @@
  * Quantities derived from a state in a mode, with the time derivatives needed to locate their peaks as roots
  * of the derivative (model contract §5). Pure.
  */
-import { type Mode, type Plant, Stage } from './plant.js';
+import { type Mode, type Plant, Stage, branchResistance, branchSource, emptyBus, solveBusInto } from './plant.js';
+
+/** Scratch for the bus: filled and read within one call, never kept. */
+const scratchBus = emptyBus();
 
 export interface Observables {
   current: number;
@@ -20,39 +23,17 @@ export interface Observables {
 
 /**
  * Observables of a state in a mode. Called at every sample point, event side and root-finding iterate, so it
- * solves the bus equation inline (the same algebra as solveBus) and allocates only its result.
+ * solves the bus equation into a scratch object and allocates only its result.
  */
 export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observables {
   const groups = plant.groups;
   const lp = plant.inductanceGradient;
-  const x = y[2 * groups]!;
   const v = mode.moving ? y[2 * groups + 1]! : 0;
-  const loopInductance = plant.feedInductance + lp * x;
-  const loopResistance =
-    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
+  const bus = solveBusInto(plant, y, mode, scratchBus);
+  const { current, currentRate, busVoltage, loopInductance, conductance, drive, anyConducting } = bus;
+  const loadResistance = bus.loopResistance + lp * v;
   const groupCurrent = new Array<number>(groups);
   const groupRate = new Array<number>(groups);
-  let conductance = 0;
-  let drive = 0;
-  let current = 0;
-  let anyConducting = false;
-  for (let g = 0; g < groups; g++) {
-    const stage = mode.stage[g]!;
-    if (stage !== Stage.Capacitor && stage !== Stage.Crowbar) continue;
-    anyConducting = true;
-    const i = y[g]!;
-    const crowbar = stage === Stage.Crowbar;
-    const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
-    const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
-    const invL = 1 / plant.inductance[g]!;
-    conductance += invL;
-    drive += (source - resistance * i) * invL;
-    current += i;
-  }
-  const loadResistance = loopResistance + lp * v;
-  const busVoltage = (loopInductance * drive + loadResistance * current + plant.arcDrop) / (1 + loopInductance * conductance);
-  if (!anyConducting) current = 0;
-  const currentRate = anyConducting ? drive - conductance * busVoltage : 0;
   // dA/dt = Σ (du_k/dt − R_eff,k di_k/dt)/L_k, needed for d²I/dt² and the breech-voltage rate
   let driveRate = 0;
   for (let g = 0; g < groups; g++) {
@@ -63,14 +44,12 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
       continue;
     }
     const i = y[g]!;
-    const crowbar = stage === Stage.Crowbar;
-    const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
-    const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
+    const resistance = branchResistance(plant, g, stage);
     const inductance = plant.inductance[g]!;
-    const rate = (source - resistance * i - busVoltage) / inductance;
+    const rate = (branchSource(plant, g, stage, y) - resistance * i - busVoltage) / inductance;
     groupCurrent[g] = i;
     groupRate[g] = rate;
-    const sourceRate = crowbar ? 0 : -i / plant.capacitance[g]!;
+    const sourceRate = stage === Stage.Crowbar ? 0 : -i / plant.capacitance[g]!;
     driveRate += (sourceRate - resistance * rate) / inductance;
   }
   const i2 = current * current;

@@ -156,10 +156,14 @@ export function evolvingComponents(plant: Plant, mode: Mode): number[] {
   return components;
 }
 
-/** Source voltage u_k and branch resistance R_eff,k of a conducting group in its stage. */
-function branch(plant: Plant, g: number, stage: Stage, capacitorVoltage: number): { source: number; resistance: number } {
-  if (stage === Stage.Crowbar) return { source: -plant.diodeDrop[g]!, resistance: plant.crowbarBranchResistance[g]! };
-  return { source: capacitorVoltage, resistance: plant.capacitorBranchResistance[g]! };
+/** Source voltage u_k of a conducting group in its stage: the capacitor voltage, or −V_D through the crowbar. */
+export function branchSource(plant: Plant, g: number, stage: Stage, y: ArrayLike<number>): number {
+  return stage === Stage.Crowbar ? -plant.diodeDrop[g]! : y[plant.groups + g]!;
+}
+
+/** Branch resistance R_eff,k of a conducting group in its stage. */
+export function branchResistance(plant: Plant, g: number, stage: Stage): number {
+  return stage === Stage.Crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
 }
 
 export interface Bus {
@@ -172,17 +176,32 @@ export interface Bus {
   /** loop inductance L(x) and resistance R(x) */
   loopInductance: number;
   loopResistance: number;
+  /** G = Σ 1/L_k and A = Σ (u_k − R_eff,k i_k)/L_k over the conducting groups */
+  conductance: number;
+  drive: number;
   anyConducting: boolean;
 }
 
+export const emptyBus = (): Bus => ({
+  current: 0,
+  busVoltage: 0,
+  currentRate: 0,
+  loopInductance: 0,
+  loopResistance: 0,
+  conductance: 0,
+  drive: 0,
+  anyConducting: false,
+});
+
 /**
- * The algebraic bus equation: V_b = (L(x)A + B)/(1 + L(x)G), dI/dt = A − G V_b.
- * `extra` adds a group as if conducting with zero current (the turn-on test of the contract).
+ * The algebraic bus equation: V_b = (L(x)A + B)/(1 + L(x)G), dI/dt = A − G V_b, written into `bus` so the
+ * integrator's inner loop allocates nothing. `extra` adds a group as if conducting with zero current (the
+ * turn-on test of the contract).
  */
-export function solveBus(plant: Plant, y: ArrayLike<number>, mode: Mode, extra = -1): Bus {
-  const ix = plant.index;
-  const x = y[ix.position]!;
-  const v = mode.moving ? y[ix.velocity]! : 0;
+export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus: Bus, extra = -1): Bus {
+  const groups = plant.groups;
+  const x = y[2 * groups]!;
+  const v = mode.moving ? y[2 * groups + 1]! : 0;
   const loopInductance = plant.feedInductance + plant.inductanceGradient * x;
   const loopResistance =
     plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
@@ -190,27 +209,32 @@ export function solveBus(plant: Plant, y: ArrayLike<number>, mode: Mode, extra =
   let drive = 0;
   let current = 0;
   let anyConducting = false;
-  for (let g = 0; g < plant.groups; g++) {
+  for (let g = 0; g < groups; g++) {
     const stage = g === extra ? Stage.Capacitor : mode.stage[g]!;
-    if (!isConducting(stage)) continue;
+    if (stage !== Stage.Capacitor && stage !== Stage.Crowbar) continue;
     anyConducting = true;
-    const i = g === extra ? 0 : y[ix.current(g)]!;
-    const b = branch(plant, g, stage, y[ix.voltage(g)]!);
+    const i = g === extra ? 0 : y[g]!;
     const invL = 1 / plant.inductance[g]!;
     conductance += invL;
-    drive += (b.source - b.resistance * i) * invL;
+    drive += (branchSource(plant, g, stage, y) - branchResistance(plant, g, stage) * i) * invL;
     current += i;
   }
   const loadDrop = (loopResistance + plant.inductanceGradient * v) * current + plant.arcDrop;
   const busVoltage = (loopInductance * drive + loadDrop) / (1 + loopInductance * conductance);
-  return {
-    current: anyConducting ? current : 0,
-    busVoltage,
-    currentRate: anyConducting ? drive - conductance * busVoltage : 0,
-    loopInductance,
-    loopResistance,
-    anyConducting,
-  };
+  bus.current = anyConducting ? current : 0;
+  bus.busVoltage = busVoltage;
+  bus.currentRate = anyConducting ? drive - conductance * busVoltage : 0;
+  bus.loopInductance = loopInductance;
+  bus.loopResistance = loopResistance;
+  bus.conductance = conductance;
+  bus.drive = drive;
+  bus.anyConducting = anyConducting;
+  return bus;
+}
+
+/** The bus equation as a new object (event functions, settling, records). */
+export function solveBus(plant: Plant, y: ArrayLike<number>, mode: Mode, extra = -1): Bus {
+  return solveBusInto(plant, y, mode, emptyBus(), extra);
 }
 
 /** Contact normal force F_N = F_N0 + k_N I². */
@@ -228,57 +252,26 @@ export function derivatives(plant: Plant, y: ArrayLike<number>, mode: Mode): num
   return dy;
 }
 
-/**
- * dy/dt written into `out` (length index.size). This is the integrator's inner loop, so it solves the bus
- * equation inline and allocates nothing; it computes exactly what solveBus and branch describe.
- */
+/** Scratch for the inner loop: filled and read within one call, never kept. */
+const scratchBus = emptyBus();
+
+/** dy/dt written into `out` (length index.size). The integrator's inner loop: it allocates nothing. */
 export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, out: number[] | Float64Array): void {
   const groups = plant.groups;
-  const stage = mode.stage;
-  const x = y[2 * groups]!;
-  const v = mode.moving ? y[2 * groups + 1]! : 0;
-  const inductanceGradient = plant.inductanceGradient;
-  const loopInductance = plant.feedInductance + inductanceGradient * x;
-  const loopResistance =
-    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
-  let conductance = 0;
-  let drive = 0;
-  let current = 0;
-  let anyConducting = false;
+  const bus = solveBusInto(plant, y, mode, scratchBus);
   for (let g = 0; g < groups; g++) {
-    const s = stage[g]!;
+    const stage = mode.stage[g]!;
     out[g] = 0;
     out[groups + g] = 0;
-    if (s !== Stage.Capacitor && s !== Stage.Crowbar) continue;
-    anyConducting = true;
+    if (stage !== Stage.Capacitor && stage !== Stage.Crowbar) continue;
     const i = y[g]!;
-    const crowbar = s === Stage.Crowbar;
-    const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
-    const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
-    const invL = 1 / plant.inductance[g]!;
-    conductance += invL;
-    drive += (source - resistance * i) * invL;
-    current += i;
-  }
-  const loadDrop = (loopResistance + inductanceGradient * v) * current + plant.arcDrop;
-  const busVoltage = (loopInductance * drive + loadDrop) / (1 + loopInductance * conductance);
-  if (anyConducting) {
-    for (let g = 0; g < groups; g++) {
-      const s = stage[g]!;
-      if (s !== Stage.Capacitor && s !== Stage.Crowbar) continue;
-      const i = y[g]!;
-      const crowbar = s === Stage.Crowbar;
-      const source = crowbar ? -plant.diodeDrop[g]! : y[groups + g]!;
-      const resistance = crowbar ? plant.crowbarBranchResistance[g]! : plant.capacitorBranchResistance[g]!;
-      out[g] = (source - resistance * i - busVoltage) / plant.inductance[g]!;
-      if (!crowbar) out[groups + g] = -i / plant.capacitance[g]!;
-    }
-  } else {
-    current = 0;
+    out[g] = (branchSource(plant, g, stage, y) - branchResistance(plant, g, stage) * i - bus.busVoltage) / plant.inductance[g]!;
+    if (stage === Stage.Capacitor) out[groups + g] = -i / plant.capacitance[g]!;
   }
   if (mode.moving) {
-    const i2 = current * current;
-    const em = 0.5 * inductanceGradient * i2;
+    const v = y[2 * groups + 1]!;
+    const i2 = bus.current * bus.current;
+    const em = 0.5 * plant.inductanceGradient * i2;
     const friction = plant.mu * (plant.preload + plant.magneticLoading * i2);
     const drag = plant.dragFactor * v * v;
     out[2 * groups] = v;
