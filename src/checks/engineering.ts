@@ -6,11 +6,11 @@
  */
 import type { ShotResults } from '../solve/types.js';
 import { STANDARD_GRAVITY } from '../units/format.js';
-import { fusionAction, meltingAction, temperatureAfterAction, DEFAULT_AMBIENT } from './heating.js';
-import { inductanceGradientOf, type RailGeometry } from './inductance.js';
-import type { Material } from './materials.js';
-import { currentCarryingArea, penetrationDepth } from './resistance.js';
-import { DEFAULT_LIMITS, LIMIT_SOURCES, type EngineeringLimits } from './limits.js';
+import { fusionAction, meltingAction, temperatureAfterAction, DEFAULT_AMBIENT } from '../conductors/heating.js';
+import { inductanceGradientOf, type RailGeometry } from '../conductors/inductance.js';
+import type { Material } from '../conductors/materials.js';
+import { currentCarryingArea, penetrationDepth } from '../conductors/resistance.js';
+import { DEFAULT_LIMITS, LIMIT_SOURCES, type EngineeringLimits } from '../scenario/limits.js';
 
 export type Verdict = 'pass' | 'warn' | 'fail';
 

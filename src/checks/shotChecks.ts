@@ -26,6 +26,8 @@ export function shotChecks(scenario: Scenario, results: ShotResults): Check[] {
 }
 
 /** The `railsDerived` block of the JSON output, when the rails were given by geometry. */
+export type RailsDerivedJson = NonNullable<ReturnType<typeof railsDerivedJson>>;
+
 export function railsDerivedJson(scenario: Scenario) {
   const derived = scenario.rails.derived;
   if (!derived) return undefined;

@@ -2,10 +2,10 @@
 import { existsSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { buildArchiveIndex, scanReports } from '../report/archive.js';
-import { replaceFile } from '../report/write.js';
-import { DEFAULT_REPORT_DIR } from './run.js';
+import { replaceFile } from '../output/write.js';
+import { DEFAULT_REPORT_DIR } from '../pipeline/record.js';
 
 export function registerIndex(program: Command): void {
   program

@@ -3,11 +3,13 @@
  * exit code. A user's mistake is one line on stderr and exit code 2, never a stack trace.
  */
 import { Command, CommanderError } from 'commander';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { registerRun } from './run.js';
 import { registerIndex } from './archive.js';
 import { registerMeasureCommands } from './measure.js';
-import { registerStudyCommands } from '../study/commands.js';
+import { registerCompareCommand } from './compare.js';
+import { registerSizeCommand } from './size.js';
+import { registerSweepCommands } from './sweep.js';
 import { TOOL_VERSION } from '../version.js';
 
 async function main(argv: string[]): Promise<void> {
@@ -21,7 +23,9 @@ async function main(argv: string[]): Promise<void> {
   registerRun(program);
   registerIndex(program);
   registerMeasureCommands(program);
-  registerStudyCommands(program);
+  registerSweepCommands(program);
+  registerCompareCommand(program);
+  registerSizeCommand(program);
   try {
     // async: sweep and size await their workers; their errors must reach handle() like any other
     await program.parseAsync(argv);

@@ -8,7 +8,7 @@ import { unit as mathUnit } from 'mathjs';
 import { readMeasurement, readPositionPoints, type Measurement, type MeasurementOptions, type PositionPoints } from '../measure/csv.js';
 import type { FitNoise, FreeParameter, ResidualGroup } from '../measure/fit.js';
 import { readTable } from '../measure/table.js';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { dimensionOfPath, fieldAt, quantityPaths } from '../scenario/fields.js';
 import { getScenarioPath, parsePath } from '../scenario/paths.js';
 import { didYouMean } from '../scenario/suggest.js';
@@ -24,9 +24,6 @@ export interface MeasureFlags {
   muzzleVelocity?: string;
   exitTime?: string;
 }
-
-/** Repeatable options: no default given to commander, so its help does not print "(default: [])". */
-export const collect = (value: string, previous: string[] | undefined): string[] => [...(previous ?? []), value];
 
 const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 

@@ -2,7 +2,6 @@
  * `railpulse overlay` and `railpulse fit`: a fired shot's records against the model. Wiring only: the CSV
  * reading, the fit and the goodness of fit are in src/measure, the page in src/report.
  */
-import { existsSync, mkdirSync, statSync } from 'node:fs';
 import { basename, dirname, extname } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { Command } from 'commander';
@@ -11,22 +10,20 @@ import { fitScenario, type FitResult } from '../measure/fit.js';
 import { goodnessOfFit, type GoodnessOfFit } from '../measure/goodness.js';
 import { sampledLikeMeasurement } from '../measure/sampling.js';
 import { setScenarioPath } from '../scenario/paths.js';
-import { provenanceOf, recordTag, reportDate } from '../output/provenance.js';
+import { reportDate } from '../output/provenance.js';
+import { writeNewFile } from '../output/write.js';
+import { DEFAULT_REPORT_DIR, recordShot } from '../pipeline/record.js';
+import { inFile, shoot, type AssessedShot } from '../pipeline/shoot.js';
 import { formatQuantity } from '../report/format.js';
-import { buildShotReport } from '../report/html.js';
 import { siUnitOfPath } from '../report/inputs.js';
 import type { OverlayFit, OverlayInput } from '../report/overlay.js';
-import { reportBaseName, writeExactFile, writeNewFile } from '../report/write.js';
-import { InputError } from '../scenario/errors.js';
-import { loadScenarioFile, loadScenarioText, type LoadedScenario } from '../scenario/load.js';
+import { loadScenarioFile, loadScenarioText } from '../scenario/load.js';
 import type { Scenario } from '../scenario/types.js';
 import { runShot } from '../solve/shot.js';
 import type { Shot } from '../solve/types.js';
-import { shotWarnings } from '../solve/warnings.js';
-import { inFile } from './errors.js';
-import { collect, parseFreeList, parseNoise, parseWeights, readMeasuredInputs, type MeasuredInputs, type MeasureFlags } from './measure-options.js';
+import { collect } from './common.js';
+import { parseFreeList, parseNoise, parseWeights, readMeasuredInputs, type MeasuredInputs, type MeasureFlags } from './measure-options.js';
 
-const DEFAULT_REPORT_DIR = 'reports';
 const CAUTION =
   'A calibrated model is still a model: before charging a bank for the next shot, follow your institution\'s safety rules, local codes and licensed practice — a charged capacitor bank can kill.';
 
@@ -57,35 +54,15 @@ function compare(shot: Shot, inputs: MeasuredInputs): GoodnessOfFit {
   return goodnessOfFit(shot, inputs.measurement, { ...measuredFigures(inputs), ...(inputs.positions ? { positions: inputs.positions } : {}) });
 }
 
-/** Same placement rules as `run --report`: a new file in a folder (never clobbering), or an exact new .html file. */
-function writeOverlayReport(html: string, target: string | undefined, loaded: LoadedScenario): string {
-  const place = target ?? DEFAULT_REPORT_DIR;
-  if (place.toLowerCase().endsWith('.html')) {
-    writeExactFile(place, html, '--report');
-    return place;
-  }
-  if (existsSync(place) && !statSync(place).isDirectory()) {
-    throw new InputError('--report', `${place} is a file; give a folder or a new file name ending in .html`);
-  }
-  mkdirSync(place, { recursive: true });
-  return writeNewFile(place, `${reportBaseName(reportDate(), loaded.scenario.name, recordTag(loaded.sha256))}_overlay`, '.html', html);
-}
-
-function overlayReport(loaded: LoadedScenario, scenario: Scenario, shot: Shot, inputs: MeasuredInputs, goodness: GoodnessOfFit, fit?: OverlayFit): string {
-  return buildShotReport({
-    scenarioRaw: loaded.raw,
-    scenario,
-    shot,
-    provenance: provenanceOf(shot, loaded.sha256),
-    warnings: shotWarnings(scenario, shot).map((w) => w.message),
-    overlay: {
-      measurement: inputs.measurement,
-      ...(inputs.positions ? { positions: inputs.positions } : {}),
-      measured: measuredFigures(inputs),
-      goodness,
-      ...(fit ? { fit } : {}),
-    },
-  });
+/** The overlay part of the record: the measured traces, the figures given on the command line, the goodness of fit. */
+function overlayInput(inputs: MeasuredInputs, goodness: GoodnessOfFit, fit?: OverlayFit): OverlayInput {
+  return {
+    measurement: inputs.measurement,
+    ...(inputs.positions ? { positions: inputs.positions } : {}),
+    measured: measuredFigures(inputs),
+    goodness,
+    ...(fit ? { fit } : {}),
+  };
 }
 
 function goodnessLines(goodness: GoodnessOfFit): string[] {
@@ -108,10 +85,9 @@ function goodnessLines(goodness: GoodnessOfFit): string[] {
 export function overlayCommand(file: string, csv: string, flags: OverlayFlags): GoodnessOfFit {
   const loaded = loadScenarioFile(file);
   const inputs = readMeasuredInputs(csv, flags, loaded.scenario.rails.length);
-  const scenario = sampledLikeMeasurement(loaded.scenario, inputs.measurement);
-  const shot = inFile(file, () => runShot(scenario));
-  const goodness = compare(shot, inputs);
-  const written = writeOverlayReport(overlayReport(loaded, scenario, shot, inputs, goodness), flags.report, loaded);
+  const assessed: AssessedShot = shoot(loaded, { scenario: sampledLikeMeasurement(loaded.scenario, inputs.measurement) });
+  const goodness = compare(assessed.shot, inputs);
+  const written = recordShot(assessed, flags.report, overlayInput(inputs, goodness));
   if (flags.json) {
     process.stdout.write(toJson(goodness));
     process.stderr.write(`report: ${written}\n`);
@@ -199,10 +175,9 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
   const scenarioPath = writeNewFile(dirname(file), `${base}.calibrated`, '.json', text);
   const loadedCalibrated = { ...calibrated, file: scenarioPath };
 
-  const scenario = sampledLikeMeasurement(calibrated.scenario, inputs.measurement);
-  const shot = runShot(scenario);
-  const goodness = compare(shot, inputs);
-  const reportPath = writeOverlayReport(overlayReport(loadedCalibrated, scenario, shot, inputs, goodness, overlayFit(fit)), flags.report, loadedCalibrated);
+  const assessed = shoot(loadedCalibrated, { scenario: sampledLikeMeasurement(calibrated.scenario, inputs.measurement) });
+  const goodness = compare(assessed.shot, inputs);
+  const reportPath = recordShot(assessed, flags.report, overlayInput(inputs, goodness, overlayFit(fit)));
 
   if (flags.json) {
     const parameters = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty, initial: p.initial }]));

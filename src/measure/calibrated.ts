@@ -4,7 +4,7 @@
  * name marked "(calibrated)" and a description line saying against which file, on which date, which
  * values were fitted. Pure: the caller writes the text and checks it loads.
  */
-import { parsePath } from '../scenario/paths.js';
+import { setRawPath } from '../scenario/paths.js';
 
 export interface CalibrationNote {
   /** the scenario file that was calibrated */
@@ -15,26 +15,6 @@ export interface CalibrationNote {
   date: string;
   /** path → fitted value and one standard uncertainty (SI) */
   fitted: Record<string, { value: number; uncertainty: number }>;
-}
-
-type Node = Record<string | number, unknown>;
-
-/** Set `value` at a scenario path in a parsed JSON object, creating missing (or null) sections. */
-export function setRawPath(raw: Record<string, unknown>, path: string, value: number): void {
-  const steps = parsePath(path);
-  if (!steps) throw new RangeError(`not a scenario path: ${path}`);
-  let node: Node = raw;
-  for (let k = 0; k < steps.length - 1; k++) {
-    const step = steps[k]!;
-    const next = node[step];
-    if (typeof next !== 'object' || next === null) {
-      // only sections can be missing: list items (bank[n]) exist, or the fit could not have read them
-      if (typeof step === 'number' || typeof steps[k + 1] === 'number') throw new RangeError(`no list item at ${path}`);
-      node[step] = {};
-    }
-    node = node[step] as Node;
-  }
-  node[steps[steps.length - 1]!] = value;
 }
 
 /** One line for the description: what was fitted, against what, when. */

@@ -14,7 +14,7 @@
  * `t [us]` column is `offset: { t: 2 }`.
  */
 import { unit as mathUnit } from 'mathjs';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { normaliseUnitText, parseWithUnit } from '../units/quantity.js';
 import { readTable, type Table, type TableColumn } from './table.js';
 

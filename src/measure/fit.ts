@@ -28,11 +28,12 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import type { Shot, Waveforms } from '../solve/types.js';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SignalName } from './csv.js';
 import { leastSquares } from './lsq.js';
 import { getScenarioPath } from '../scenario/paths.js';
-import { estimateNoise, interpolateSorted, median } from './waveform.js';
+import { interpolateSorted } from '../core/interpolate.js';
+import { estimateNoise, median } from './waveform.js';
 
 export interface FreeParameter {
   path: string;

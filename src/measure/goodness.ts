@@ -9,8 +9,8 @@
  */
 import type { Shot } from '../solve/types.js';
 import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SignalName } from './csv.js';
-import { positionsAt } from './fit.js';
-import { interpolateSorted, locatePeak } from './waveform.js';
+import { interpolateSorted } from '../core/interpolate.js';
+import { locatePeak } from './waveform.js';
 
 export interface Comparison {
   model: number;

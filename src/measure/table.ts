@@ -4,7 +4,7 @@
  * semicolon or tab separator). Knows nothing about signals or units: ./csv.ts gives the columns meaning.
  * Every problem is an InputError at `file:line`.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 
 export interface TableColumn {
   /** the header cell as written (quotes removed, trimmed) */

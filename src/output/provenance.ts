@@ -1,8 +1,19 @@
 /** Provenance of a shot record: which tool, which Node, which input, when. */
 import { createHash } from 'node:crypto';
 import type { Shot } from '../solve/types.js';
-import type { ReportProvenance } from '../report/embedded.js';
 import { TOOL_VERSION } from '../version.js';
+
+/** Which tool, which Node, which input and when: the provenance every record and result carries. */
+export interface ShotProvenance {
+  toolVersion: string;
+  nodeVersion: string;
+  /** ISO 8601; under SOURCE_DATE_EPOCH a fixed date */
+  date: string;
+  scenarioSha256: string;
+  relTol: number;
+  steps: number;
+  rhsEvaluations: number;
+}
 
 /** The report date: now, or SOURCE_DATE_EPOCH (seconds) for reproducible builds of a record. */
 export function reportDate(): string {
@@ -11,7 +22,7 @@ export function reportDate(): string {
   return new Date().toISOString();
 }
 
-export function provenanceOf(shot: Shot, scenarioSha256: string): ReportProvenance {
+export function provenanceOf(shot: Shot, scenarioSha256: string): ShotProvenance {
   return {
     toolVersion: TOOL_VERSION,
     nodeVersion: process.version,

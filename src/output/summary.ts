@@ -2,7 +2,7 @@
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
 import { LOSS_KEYS } from '../solve/types.js';
-import type { ShotWarning } from '../solve/warnings.js';
+import type { ShotWarning } from '../checks/warnings.js';
 import { formatPercent, formatSI, STANDARD_GRAVITY } from '../units/format.js';
 import type { Check } from '../checks/engineering.js';
 

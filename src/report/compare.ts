@@ -14,7 +14,7 @@ import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
 import type { PlotFigure } from './plots.js';
 import { bankEnergies } from './safety.js';
 import { pageStart } from './styles.js';
-import { reportBaseName } from './write.js';
+import { reportBaseName } from '../output/write.js';
 
 export interface ComparisonEntry {
   /** the scenario file as the user named it */
@@ -25,7 +25,7 @@ export interface ComparisonEntry {
   scenario: Scenario;
   shot: Shot;
   sha256?: string;
-  /** the shot's warnings (src/solve/warnings.ts) */
+  /** the shot's warnings (src/checks/warnings.ts) */
   warnings?: string[];
 }
 

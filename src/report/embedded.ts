@@ -3,6 +3,7 @@
  * provenance, embedded as JSON so an archive index (or anyone) can read a report without parsing HTML.
  */
 import type { ShotResults } from '../solve/types.js';
+import type { ShotProvenance } from '../output/provenance.js';
 import { jsonScriptElement, readJsonScriptElement } from './escape.js';
 
 export const SCENARIO_ELEMENT_ID = 'railpulse-scenario';
@@ -10,16 +11,7 @@ export const RESULTS_ELEMENT_ID = 'railpulse-results';
 export const REPORT_FORMAT = 'railpulse-shot-report';
 export const REPORT_FORMAT_VERSION = 1;
 
-export interface ReportProvenance {
-  toolVersion: string;
-  nodeVersion: string;
-  /** ISO 8601; under SOURCE_DATE_EPOCH the caller passes a fixed date */
-  date: string;
-  scenarioSha256: string;
-  relTol: number;
-  steps: number;
-  rhsEvaluations: number;
-}
+export type ReportProvenance = ShotProvenance;
 
 export interface ReportCheck {
   id: string;

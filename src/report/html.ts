@@ -34,7 +34,7 @@ export interface ShotReportInput {
   shot: Shot;
   provenance: ReportProvenance;
   checks?: ReportCheck[];
-  /** the shot's warnings (src/solve/warnings.ts) and any the caller adds; each shown once */
+  /** the shot's warnings (src/checks/warnings.ts) and any the caller adds; each shown once */
   warnings: string[];
   /** waveform decimation for the plots (default: about 3,000 points a plot, at most 4,000) */
   decimate?: DecimateOptions;

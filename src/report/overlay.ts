@@ -4,9 +4,7 @@
  * figures and, for a calibrated shot, the fitted parameters with their uncertainties and correlations.
  * Pure: the goodness of fit is computed by src/measure/goodness.ts and passed in; nothing is re-derived.
  */
-import type { Measurement, PositionPoints, SignalName } from '../measure/csv.js';
-import type { Comparison, GoodnessOfFit } from '../measure/goodness.js';
-import { interpolateSorted } from '../measure/waveform.js';
+import { interpolateSorted } from '../core/interpolate.js';
 import type { Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
@@ -14,6 +12,43 @@ import { formatPlain, formatQuantity, scaleFor, NO_VALUE, type Scale } from './f
 import { axis, baseLayout, maxAbs, round6, type PlotFigure } from './plots.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
+
+/*
+ * What the page draws of a measured shot. Declared here, by the page, so that the report does not depend on
+ * the room that reads and fits measured records (src/measure): its types have this shape.
+ */
+export type SignalName = 'I' | 'V_breech' | 'V_muzzle';
+
+export interface Measurement {
+  /** sample times (s), increasing */
+  t: readonly number[];
+  /** SI signals on the same samples */
+  signals: Partial<Record<SignalName, readonly number[]>>;
+  source: string;
+  columns: readonly { role: string; header: string; unit: string; scale: number; offset: number }[];
+}
+
+export interface PositionPoints {
+  x: readonly number[];
+  t: readonly number[];
+  source: string;
+}
+
+export interface Comparison {
+  model: number;
+  measured: number;
+  error: number;
+  relativeError: number;
+}
+
+export interface GoodnessOfFit {
+  signals: Partial<Record<SignalName, { rms: number; relativeRms: number; points: number }>>;
+  peakCurrent?: Comparison;
+  peakCurrentTime?: Comparison;
+  exitTime?: Comparison;
+  muzzleVelocity?: Comparison;
+  arrivalTimeErrors?: readonly (number | null)[];
+}
 
 export interface OverlayFitParameter {
   value: number;

@@ -1,22 +1,24 @@
 /**
- * The plotly bundle inlined into shot reports. The basic partial bundle (scatter, bar, pie) covers every
- * trace a shot report draws; it is a quarter of the full bundle's size and evaluates several times faster.
- * Read from node_modules when a report is built, so a report needs nothing at view time.
+ * The plotly bundles inlined into pages. Shot records, overlays and comparisons use the basic partial bundle
+ * (scatter, bar, pie): a quarter of the full bundle's size, evaluated several times faster. Study pages need
+ * heat maps and scatter matrices, which only the cartesian partial bundle has. Read from node_modules when a
+ * page is built, so a page needs nothing at view time.
  */
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 
 export const PLOTLY_PACKAGE = 'plotly.js-basic-dist-min';
+export const STUDY_PLOTLY_PACKAGE = 'plotly.js-cartesian-dist-min';
 
-let cached: string | undefined;
+const cached = new Map<string, string>();
 
-export function plotlyBundleSource(): string {
-  if (cached === undefined) {
-    const requireFromHere = createRequire(import.meta.url);
-    const source = readFileSync(requireFromHere.resolve(PLOTLY_PACKAGE), 'utf8');
+export function plotlyBundleSource(packageName: string = PLOTLY_PACKAGE): string {
+  let source = cached.get(packageName);
+  if (source === undefined) {
+    source = readFileSync(createRequire(import.meta.url).resolve(packageName), 'utf8');
     // The bundle is inlined in a <script> element: a closing tag inside it would end the element early.
-    if (/<\/script/i.test(source)) throw new Error(`${PLOTLY_PACKAGE} contains "</script" and cannot be inlined`);
-    cached = source;
+    if (/<\/script/i.test(source)) throw new Error(`${packageName} contains "</script" and cannot be inlined`);
+    cached.set(packageName, source);
   }
-  return cached;
+  return source;
 }

@@ -3,15 +3,15 @@
  * rail cross-section and material, armature resistance and mass from its block and material. A number the
  * user gave always wins over a derived one.
  */
-import { InputError } from './errors.js';
+import { InputError } from '../core/errors.js';
 import type { Scenario } from './types.js';
 import { toSI, DIMENSIONS, QuantityError } from '../units/quantity.js';
-import { railGeometryFromObject } from '../checks/inductance.js';
-import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material } from '../checks/materials.js';
-import { deriveRails } from '../checks/rails.js';
-import { deriveArmature } from '../checks/armature.js';
-import { bankCharacteristicTime } from '../checks/resistance.js';
-import { LIMIT_DIMENSIONS, validateLimits } from '../checks/limits.js';
+import { railGeometryFromObject } from '../conductors/inductance.js';
+import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material } from '../conductors/materials.js';
+import { deriveRails } from '../conductors/rails.js';
+import { deriveArmature } from '../conductors/armature.js';
+import { bankCharacteristicTime } from '../conductors/resistance.js';
+import { LIMIT_DIMENSIONS, validateLimits } from './limits.js';
 
 type Read = Record<string, unknown>;
 

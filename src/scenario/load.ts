@@ -4,7 +4,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { InputError } from './errors.js';
+import { InputError } from '../core/errors.js';
 import { QuantityError, toSI } from '../units/quantity.js';
 import { SCENARIO_FIELDS, type Field, type SectionField } from './fields.js';
 import type { Scenario } from './types.js';

@@ -3,7 +3,7 @@
  * vary and fits free. Pure and free of src/units (the sweep worker imports it, and must not pull in mathjs).
  */
 import type { Scenario } from './types.js';
-import { InputError } from './errors.js';
+import { InputError } from '../core/errors.js';
 import { didYouMean } from './suggest.js';
 
 export type PathStep = string | number;
@@ -103,4 +103,24 @@ export function setScenarioPath(scenario: Scenario, path: string, value: number)
     return { ...record, [step]: replace(record[step], depth + 1) };
   };
   return replace(scenario, 0) as Scenario;
+}
+
+type RawNode = Record<string | number, unknown>;
+
+/** Set `value` at a scenario path in a parsed JSON object, creating missing (or null) sections. */
+export function setRawPath(raw: Record<string, unknown>, path: string, value: number): void {
+  const steps = parsePath(path);
+  if (!steps) throw new RangeError(`not a scenario path: ${path}`);
+  let node: RawNode = raw;
+  for (let k = 0; k < steps.length - 1; k++) {
+    const step = steps[k]!;
+    const next = node[step];
+    if (typeof next !== 'object' || next === null) {
+      // only sections can be missing: list items (bank[n]) exist, or the fit could not have read them
+      if (typeof step === 'number' || typeof steps[k + 1] === 'number') throw new RangeError(`no list item at ${path}`);
+      node[step] = {};
+    }
+    node = node[step] as RawNode;
+  }
+  node[steps[steps.length - 1]!] = value;
 }

@@ -1,8 +1,8 @@
-import type { RailGeometry } from '../checks/inductance.js';
-import type { Material } from '../checks/materials.js';
-import type { RailsDerived } from '../checks/rails.js';
-import type { ArmatureDerived, ArmatureGeometry } from '../checks/armature.js';
-import type { EngineeringLimits } from '../checks/limits.js';
+import type { RailGeometry } from '../conductors/inductance.js';
+import type { Material } from '../conductors/materials.js';
+import type { RailsDerived } from '../conductors/rails.js';
+import type { ArmatureDerived, ArmatureGeometry } from '../conductors/armature.js';
+import type { EngineeringLimits } from './limits.js';
 
 /**
  * A scenario after loading: every quantity a plain SI number, every default filled in.

@@ -2,7 +2,7 @@
  * Range checks on an SI scenario: what the model needs to be well posed. Run after loading and again after a
  * study changes a value, so a sweep point outside the physical range is caught with its path.
  */
-import { InputError } from './errors.js';
+import { InputError } from '../core/errors.js';
 import type { Scenario } from './types.js';
 
 type Rule = [path: string, value: number, ok: boolean, expected: string];

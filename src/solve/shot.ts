@@ -21,10 +21,10 @@ import { observe, type Observables } from '../model/observables.js';
 import { createSolver, OUTCOME_MAX_STEPS, type Dense } from './odex.js';
 import { brentRoot } from './roots.js';
 import { createPeakTracker, createWaveformRecorder } from './record.js';
-import { gaussLegendre } from './quadrature.js';
+import { gaussLegendre } from '../core/quadrature.js';
 import { absoluteTolerances, fastestDecay, timeScale } from './scaling.js';
 import type { EventKind, Losses, Outcome, Shot, ShotEvent } from './types.js';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 
 export interface RunOptions {
   /** keep waveforms (default true); studies turn them off */

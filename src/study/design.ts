@@ -7,7 +7,7 @@
  * - random: `samples` independent uniform points over the same ranges.
  * Both sampled designs are fixed by `seed`.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Axis } from './spec.js';
 import { counterUniform, mulberry32 } from './prng.js';
 

@@ -4,7 +4,7 @@
  */
 import { existsSync, mkdirSync, renameSync, rmSync, openSync, closeSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { CSV_FILE, JSONL_FILE, MANIFEST_FILE, isMissingOrEmptyDir, readLines, rowIndex, studyIdentity, writeNewFileAtomic, type StudyManifest } from './output.js';
 import { csvHeader, csvLine, rowLayout, type RowLayout } from './rows.js';
 import { readManifest } from './sweep.js';

@@ -2,10 +2,10 @@
  * Files of a study directory: the manifest (study.json), points.csv and points.jsonl. Files are created
  * atomically and never overwritten; the points files only grow, one flushed batch at a time.
  */
-import { closeSync, existsSync, ftruncateSync, linkSync, mkdirSync, openSync, readdirSync, readSync, renameSync, unlinkSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, ftruncateSync, linkSync, openSync, readdirSync, readSync, renameSync, unlinkSync, writeFileSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { createHash } from 'node:crypto';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { DesignKind } from './design.js';
 
 export const MANIFEST_FILE = 'study.json';

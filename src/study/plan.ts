@@ -2,7 +2,7 @@
  * From command-line choices to a SweepPlan: parse --vary, build the design, the manifest and the output directory.
  * No I/O (the directory is only named here; sweep.ts creates it).
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { makeDesign, type DesignKind } from './design.js';
 import { MANIFEST_FORMAT, SHARD_RULE, defaultStudyDir, type ShardSpec, type StudyManifest } from './output.js';

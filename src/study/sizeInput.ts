@@ -5,18 +5,18 @@
  *   "limits": { "peakCurrent": "120 kA", "peakAcceleration": "2e6 m/s^2", "actionIntegral": "5e6 A^2 s",
  *               "reversal": 0.2, "chargeVoltage": "10 kV", "modulesPerGroup": 8 }   (all optional)
  *
- * `limits` also holds the engineering-check thresholds (src/checks/limits.ts), which the loader reads; here
+ * `limits` also holds the engineering-check thresholds (src/scenario/limits.ts), which the loader reads; here
  * they are passed over.
  */
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { parseJson, scenarioFromRaw } from '../scenario/load.js';
 import { didYouMean } from '../scenario/suggest.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, QuantityError, toSI, type Dimension } from '../units/quantity.js';
 import type { SizingLimits, SizingTarget } from './size.js';
-import { LIMIT_SOURCES } from '../checks/limits.js';
+import { LIMIT_SOURCES } from '../scenario/limits.js';
 
 const ACTION: Dimension = { si: 'A^2 s', noun: 'an action integral (A²·s)', display: 'A²·s' };
 

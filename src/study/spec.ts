@@ -8,7 +8,7 @@
  * Values carry a unit of the path's dimension, or are plain SI numbers. For the `lhs` and `random` designs only
  * the smallest and largest value of a SPEC count (a log SPEC is sampled in log space).
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, toSI, type Dimension } from '../units/quantity.js';
 import { closestPath, formatPath, getPath, listNumericPaths, parsePath, type PathStep } from '../scenario/paths.js';

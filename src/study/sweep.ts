@@ -9,7 +9,7 @@ import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import type { BatchContext, BatchRequest, BatchResult } from './batch.js';
 import type { Design } from './design.js';

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import type { ShotResults } from '../../src/solve/types.js';
 import { engineeringChecks, type Check, type EngineeringInput } from '../../src/checks/engineering.js';
-import { DEFAULT_LIMITS, validateLimits } from '../../src/checks/limits.js';
-import { meltingAction, specificActionToTemperature } from '../../src/checks/heating.js';
-import { getMaterial } from '../../src/checks/materials.js';
-import { currentCarryingArea } from '../../src/checks/resistance.js';
-import { InputError } from '../../src/scenario/errors.js';
+import { DEFAULT_LIMITS, validateLimits } from '../../src/scenario/limits.js';
+import { meltingAction, specificActionToTemperature } from '../../src/conductors/heating.js';
+import { getMaterial } from '../../src/conductors/materials.js';
+import { currentCarryingArea } from '../../src/conductors/resistance.js';
+import { InputError } from '../../src/core/errors.js';
 
 const MU0 = 4e-7 * Math.PI;
 const copper = getMaterial('copper');

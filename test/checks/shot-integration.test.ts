@@ -3,10 +3,10 @@
 import { describe, expect, it } from 'vitest';
 import { runShot } from '../../src/solve/shot.js';
 import { scenario, moduleGroup } from '../helpers/scenario.js';
-import { deriveRails } from '../../src/checks/rails.js';
-import { deriveArmature } from '../../src/checks/armature.js';
-import { getMaterial } from '../../src/checks/materials.js';
-import { bankCharacteristicTime } from '../../src/checks/resistance.js';
+import { deriveRails } from '../../src/conductors/rails.js';
+import { deriveArmature } from '../../src/conductors/armature.js';
+import { getMaterial } from '../../src/conductors/materials.js';
+import { bankCharacteristicTime } from '../../src/conductors/resistance.js';
 import { engineeringChecks } from '../../src/checks/engineering.js';
 
 describe('engineering checks on a real shot', () => {

@@ -3,7 +3,8 @@
  * Checked by loading the result with the real scenario loader (the model contract's defaults, §6).
  */
 import { describe, expect, it } from 'vitest';
-import { calibratedScenarioRaw, setRawPath } from '../../src/measure/calibrated.js';
+import { calibratedScenarioRaw } from '../../src/measure/calibrated.js';
+import { setRawPath } from '../../src/scenario/paths.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 
 const RAW = {

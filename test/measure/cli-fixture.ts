@@ -8,7 +8,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawn, spawnSync } from 'node:child_process';
-import { interpolateSorted } from '../../src/measure/waveform.js';
+import { interpolateSorted } from '../../src/core/interpolate.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import { seededNormal } from './random.js';

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readMeasurement, readPositionPoints } from '../../src/measure/csv.js';
-import { InputError } from '../../src/scenario/errors.js';
+import { InputError } from '../../src/core/errors.js';
 
 const close = (a: number[] | undefined, b: number[]): void => {
   expect(a).toBeDefined();

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import type { Measurement } from '../../src/measure/csv.js';
 import { fitScenario } from '../../src/measure/fit.js';
 import { getScenarioPath, setScenarioPath } from '../../src/scenario/paths.js';
-import { interpolateSorted } from '../../src/measure/waveform.js';
+import { interpolateSorted } from '../../src/core/interpolate.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { runShot } from '../../src/solve/shot.js';

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { parseFree, parseNoise, parseWeights } from '../../src/cli/measure-options.js';
-import { InputError } from '../../src/scenario/errors.js';
+import { InputError } from '../../src/core/errors.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { TRUTH_RAW } from './cli-fixture.js';
 

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Measurement } from '../../src/measure/csv.js';
 import { goodnessOfFit } from '../../src/measure/goodness.js';
-import { interpolateSorted } from '../../src/measure/waveform.js';
+import { interpolateSorted } from '../../src/core/interpolate.js';
 import { readJsonScriptElement } from '../../src/report/escape.js';
 import { buildShotReport } from '../../src/report/html.js';
 import { overlayFigures, type OverlayInput } from '../../src/report/overlay.js';

@@ -12,7 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readMeasurement, readPositionPoints } from '../../src/measure/csv.js';
 import { goodnessOfFit } from '../../src/measure/goodness.js';
 import { buildShotReport } from '../../src/report/html.js';
-import { writeNewFile } from '../../src/report/write.js';
+import { writeNewFile } from '../../src/output/write.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import { launchBrowser, watchPage, type BrowserSession, type PageLog } from '../report/browser.js';

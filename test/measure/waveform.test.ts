@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { estimateNoise, interpolateSorted, locatePeak } from '../../src/measure/waveform.js';
+import { estimateNoise, locatePeak } from '../../src/measure/waveform.js';
+import { interpolateSorted } from '../../src/core/interpolate.js';
 import { getScenarioPath, setScenarioPath } from '../../src/scenario/paths.js';
-import { InputError } from '../../src/scenario/errors.js';
+import { InputError } from '../../src/core/errors.js';
 import { rlcScenario } from './fake-model.js';
 import { seededNormal } from './random.js';
 

@@ -12,7 +12,7 @@ import { buildArchiveIndex, scanReports } from '../../src/report/archive.js';
 import { buildShotReport } from '../../src/report/html.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
-import { reportBaseName, writeNewFile } from '../../src/report/write.js';
+import { reportBaseName, writeNewFile } from '../../src/output/write.js';
 import { launchBrowser, watchPage, type BrowserSession, type PageLog } from './browser.js';
 import { benchScenarioRaw } from './fixtures/bench-scenario.js';
 import { fixedProvenance, syntheticReportInput } from './report-input.js';

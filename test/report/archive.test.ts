@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildArchiveIndex, scanReports } from '../../src/report/archive.js';
 import { buildShotReport } from '../../src/report/html.js';
-import { writeNewFile } from '../../src/report/write.js';
+import { writeNewFile } from '../../src/output/write.js';
 import { fixedProvenance, syntheticReportInput } from './report-input.js';
 
 let dir: string;

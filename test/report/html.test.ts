@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { jsonForScript } from '../../src/report/escape.js';
-import { shotWarnings } from '../../src/solve/warnings.js';
+import { shotWarnings } from '../../src/checks/warnings.js';
 import { buildShotReport, readEmbedded, STANDARD_GRAVITY } from '../../src/report/html.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from '../../src/report/plotly-bundle.js';
 import { fixedProvenance, syntheticReportInput } from './report-input.js';

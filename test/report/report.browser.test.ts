@@ -1,4 +1,4 @@
-import { shotWarnings } from '../../src/solve/warnings.js';
+import { shotWarnings } from '../../src/checks/warnings.js';
 /**
  * The shot report in a real browser (Debian's Chromium via playwright-core), generated from a real shot
  * of a small scenario run by the project's solver. Checks that every plot renders, that the page makes
@@ -12,7 +12,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildShotReport } from '../../src/report/html.js';
 import type { ShotResults } from '../../src/solve/types.js';
-import { writeNewFile } from '../../src/report/write.js';
+import { writeNewFile } from '../../src/output/write.js';
 import { launchBrowser, watchPage, type BrowserSession, type PageLog } from './browser.js';
 import { parseShownFigure } from './figure-text.js';
 import { benchShot } from './fixtures/bench-scenario.js';

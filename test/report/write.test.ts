@@ -2,7 +2,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { reportBaseName, reportFileName, slug, writeNewFile } from '../../src/report/write.js';
+import { reportBaseName, reportFileName, slug, writeNewFile } from '../../src/output/write.js';
 
 let dir: string;
 beforeEach(() => {

@@ -5,7 +5,8 @@ import { describe, expect, it } from 'vitest';
 import { dimensionOfPath, loadScenarioFile } from '../../src/scenario/load.js';
 import { readJsonScriptElement } from '../../src/report/escape.js';
 import { makeSweepPlan } from '../../src/study/plan.js';
-import { buildStudyReport, plotMode, readStudyPlotData, writeStudyReport } from '../../src/study/studyReport.js';
+import { buildStudyReport, plotMode } from '../../src/report/study.js';
+import { readStudyPlotData, writeStudyReport } from '../../src/study/studyPage.js';
 import { runSweep } from '../../src/study/sweep.js';
 import { TWO_GROUP_FILE } from './fixtures.js';
 

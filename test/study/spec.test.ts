@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { dimensionOfPath } from '../../src/scenario/load.js';
-import { InputError } from '../../src/scenario/errors.js';
+import { InputError } from '../../src/core/errors.js';
 import { parseVary, parseVaries } from '../../src/study/spec.js';
 import { twoGroupScenario } from './fixtures.js';
 

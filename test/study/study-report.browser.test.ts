@@ -10,7 +10,7 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { STUDY_FIGURES } from '../../src/study/studyReport.js';
+import { STUDY_FIGURES } from '../../src/report/study.js';
 import { launchBrowser, watchPage, type BrowserSession, type PageLog } from '../report/browser.js';
 
 const RENDER_TIMEOUT = 120_000;

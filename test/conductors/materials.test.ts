@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/scenario/errors.js';
-import { getMaterial, materialFromObject, MATERIALS, MATERIAL_FIELDS, resolveMaterial, userMaterialsFromObject, type Material } from '../../src/checks/materials.js';
+import { InputError } from '../../src/core/errors.js';
+import { getMaterial, materialFromObject, MATERIALS, MATERIAL_FIELDS, resolveMaterial, userMaterialsFromObject, type Material } from '../../src/conductors/materials.js';
 
 function whereOf(fn: () => unknown): string {
   try {

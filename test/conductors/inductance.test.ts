@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/scenario/errors.js';
-import { inductanceGradientOf, INDUCTANCE_TOLERANCE, railGeometryFromObject, rectangularRailPanels, type RailGeometry } from '../../src/checks/inductance.js';
-import { extrapolate } from '../../src/checks/richardson.js';
-import { gradedSegment, loopInductanceFromPanels, panelLogIntegral } from '../../src/checks/bem.js';
-import { logGeometricMeanDistance, logGeometricMeanDistanceByQuadrature, logDistanceRatioOfBars } from '../../src/checks/gmd.js';
+import { InputError } from '../../src/core/errors.js';
+import { inductanceGradientOf, INDUCTANCE_TOLERANCE, railGeometryFromObject, rectangularRailPanels, type RailGeometry } from '../../src/conductors/inductance.js';
+import { extrapolate } from '../../src/conductors/richardson.js';
+import { gradedSegment, loopInductanceFromPanels, panelLogIntegral } from '../../src/conductors/bem.js';
+import { logGeometricMeanDistance, logGeometricMeanDistanceByQuadrature, logDistanceRatioOfBars } from '../../src/conductors/gmd.js';
 
 const MU0 = 4e-7 * Math.PI;
 const relative = (a: number, b: number) => Math.abs(a / b - 1);

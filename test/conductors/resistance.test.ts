@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/scenario/errors.js';
-import { getMaterial } from '../../src/checks/materials.js';
+import { InputError } from '../../src/core/errors.js';
+import { getMaterial } from '../../src/conductors/materials.js';
 import {
   bankCharacteristicTime,
   magneticDiffusivity,
@@ -8,8 +8,8 @@ import {
   quarterPeriod,
   resistanceGradientDC,
   resistanceGradientOf,
-} from '../../src/checks/resistance.js';
-import { deriveRails } from '../../src/checks/rails.js';
+} from '../../src/conductors/resistance.js';
+import { deriveRails } from '../../src/conductors/rails.js';
 
 const MU0 = 4e-7 * Math.PI;
 const copper = getMaterial('copper');

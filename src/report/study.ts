@@ -1,20 +1,20 @@
 /**
- * study.html: a self-contained page of a finished study (no network; data and plotly inlined, strict CSP).
+ * The study page (study.html): a self-contained page of a finished study (no network; data and plotly inlined, strict CSP).
  * One varied parameter: line plots of the figures against it. Two on a grid: heat maps. Otherwise (or for sampled
  * designs): a scatter matrix coloured by muzzle velocity. Failing points (an error, or no muzzle exit) are marked.
- * Large studies are thinned evenly by index to at most MAX_PLOTTED points; the page says so.
+ * Large studies are thinned (src/study/studyPage.ts); the page says so.
  */
-import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import { join } from 'node:path';
-import { escapeHtml, jsonScriptElement } from '../report/escape.js';
-import { RECORD_CSP, RECORD_CSS } from '../report/styles.js';
-import { JSONL_FILE, readLines, writeNewFileAtomic, type StudyManifest } from './output.js';
+import { escapeHtml, jsonScriptElement } from './escape.js';
+import { plotlyBundleSource, STUDY_PLOTLY_PACKAGE } from './plotly-bundle.js';
+import { RECORD_CSP, RECORD_CSS } from './styles.js';
 
-export const STUDY_REPORT_FILE = 'study.html';
-/** Heat maps and scatter matrices need the cartesian partial bundle (the basic one has neither). */
-export const STUDY_PLOTLY_PACKAGE = 'plotly.js-cartesian-dist-min';
-const MAX_PLOTTED = 20_000;
+/** What the page says about the study (a study manifest has this shape). */
+export interface StudyDescription {
+  scenario: { file: string; name: string; sha256: string };
+  vary: readonly { path: string; spec: string }[];
+  design: { kind: string; seed: number };
+  points: number;
+}
 
 export const STUDY_FIGURES = [
   { key: 'muzzleVelocity', label: 'muzzle velocity', unit: 'm/s', scale: 1 },
@@ -35,41 +35,6 @@ export interface StudyPlotData {
   shown: number;
   total: number;
   failures: number;
-}
-
-/** Read the points (thinned) a study report plots. */
-export function readStudyPlotData(dir: string, manifest: StudyManifest): StudyPlotData {
-  const paths = manifest.vary.map((axis) => axis.path);
-  const stride = Math.max(1, Math.ceil(manifest.points / MAX_PLOTTED));
-  const data: StudyPlotData = { paths, axes: paths.map(() => []), figures: {}, failed: [], reasons: [], shown: 0, total: 0, failures: 0 };
-  for (const figure of STUDY_FIGURES) data.figures[figure.key] = [];
-  let row = 0;
-  for (const line of readLines(join(dir, JSONL_FILE))) {
-    const point = JSON.parse(line) as Record<string, unknown>;
-    const failed = typeof point.error === 'string' || point.outcome !== 'exited';
-    data.total += 1;
-    if (failed) data.failures += 1;
-    if (row++ % stride !== 0) continue;
-    paths.forEach((path, d) => data.axes[d]!.push(Number(point[path])));
-    for (const figure of STUDY_FIGURES) {
-      const value = point[figure.key];
-      data.figures[figure.key]!.push(typeof value === 'number' && Number.isFinite(value) ? value * figure.scale : null);
-    }
-    data.failed.push(failed);
-    data.reasons.push(typeof point.error === 'string' ? point.error : failed ? String(point.outcome) : '');
-    data.shown += 1;
-  }
-  return data;
-}
-
-let plotlySource: string | undefined;
-function plotlyBundle(): string {
-  if (plotlySource === undefined) {
-    const source = readFileSync(createRequire(import.meta.url).resolve(STUDY_PLOTLY_PACKAGE), 'utf8');
-    if (/<\/script/i.test(source)) throw new Error(`${STUDY_PLOTLY_PACKAGE} contains "</script" and cannot be inlined`);
-    plotlySource = source;
-  }
-  return plotlySource;
 }
 
 // Runs in the page: draws the figures from the embedded data. Kept as plain ES2017 text.
@@ -121,13 +86,13 @@ const PAGE_SCRIPT = `
 })();
 `;
 
-export function plotMode(manifest: StudyManifest): 'line' | 'heatmap' | 'splom' {
+export function plotMode(manifest: StudyDescription): 'line' | 'heatmap' | 'splom' {
   if (manifest.vary.length === 1) return 'line';
   if (manifest.vary.length === 2 && manifest.design.kind === 'grid') return 'heatmap';
   return 'splom';
 }
 
-export function buildStudyReport(manifest: StudyManifest, data: StudyPlotData): string {
+export function buildStudyReport(manifest: StudyDescription, data: StudyPlotData): string {
   const mode = plotMode(manifest);
   const vary = manifest.vary.map((axis) => `<li><code>${escapeHtml(axis.path)}</code> = <code>${escapeHtml(axis.spec)}</code></li>`).join('');
   const thinned = data.shown < data.total ? `<p>Showing ${data.shown} of ${data.total} points (every ${Math.ceil(data.total / data.shown)}th by index); points.csv holds them all.</p>` : '';
@@ -153,16 +118,9 @@ ${thinned}
 <div id="plots"></div>
 ${jsonScriptElement('study-figures', figures)}
 ${jsonScriptElement('study-data', data).replace('<script ', `<script data-mode="${mode}" `)}
-<script>${plotlyBundle()}</script>
+<script>${plotlyBundleSource(STUDY_PLOTLY_PACKAGE)}</script>
 <script>${PAGE_SCRIPT}</script>
 </body>
 </html>
 `;
-}
-
-/** Write study.html into a finished (or merged) study directory. */
-export function writeStudyReport(dir: string, manifest: StudyManifest): string {
-  const path = join(dir, STUDY_REPORT_FILE);
-  writeNewFileAtomic(path, buildStudyReport(manifest, readStudyPlotData(dir, manifest)));
-  return path;
 }

@@ -2,7 +2,7 @@
  * Warnings a person deciding whether to fire must see, read off a shot (no physics recomputed).
  */
 import type { Scenario } from '../scenario/types.js';
-import type { Shot } from './types.js';
+import type { Shot } from '../solve/types.js';
 
 export interface ShotWarning {
   id: 'reversal' | 'stalled' | 'timeout' | 'ledger';

@@ -7,7 +7,7 @@
  * Real armatures (C-shaped, with trailing arms) carry current through a smaller throat: give that throat's
  * area as the current-carrying cross-section for the action check when it is known.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Material } from './materials.js';
 
 export interface ArmatureGeometry {

@@ -17,7 +17,7 @@
  *   round: gap (d − 2a) at least 0.02·a and d at most 100·a.
  * L′ is scale-free, so results are cached by shape ratios: a sweep over size or a repeated lookup is free.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import { gradedSegment, loopInductanceFromPanels, type Panel } from './bem.js';
 import { logDistanceRatioOfBars } from './gmd.js';
 import { refineToConvergence } from './richardson.js';

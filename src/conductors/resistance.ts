@@ -14,7 +14,7 @@
  * raise the real resistance, and proximity crowding onto the facing faces of round rails is ignored, so
  * this is a lower estimate of R′.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { RailGeometry } from './inductance.js';
 import type { Material } from './materials.js';
 

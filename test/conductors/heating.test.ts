@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fusionAction, meltingAction, specificActionToTemperature, temperatureAfterAction } from '../../src/checks/heating.js';
-import { getMaterial } from '../../src/checks/materials.js';
+import { fusionAction, meltingAction, specificActionToTemperature, temperatureAfterAction } from '../../src/conductors/heating.js';
+import { getMaterial } from '../../src/conductors/materials.js';
 
 // Onderdonk's fusing equation for copper (published: cited in D. Brooks, "Onderdonk's and Preece's
 // Equations", PCD&F; form from memory, high): I = A·√(log10((Tm − Ta)/(234 + Ta) + 1) / (33 S)),

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/scenario/errors.js';
-import { deriveArmature } from '../../src/checks/armature.js';
-import { getMaterial } from '../../src/checks/materials.js';
+import { InputError } from '../../src/core/errors.js';
+import { deriveArmature } from '../../src/conductors/armature.js';
+import { getMaterial } from '../../src/conductors/materials.js';
 
 describe('armature from geometry', () => {
   it('a 20 × 10 × 15 mm aluminium 6061-T6 block: R = ρ·path/A, m = γ·V (Ohm’s law for a uniform bar)', () => {

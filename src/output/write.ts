@@ -6,7 +6,7 @@
 import { randomBytes } from 'node:crypto';
 import { closeSync, existsSync, fsyncSync, linkSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 
 const MAX_SUFFIX = 10_000;
 

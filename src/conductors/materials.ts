@@ -5,7 +5,7 @@
  * "from memory" with a confidence. Alloy figures are typical, not guaranteed minima: for a real design use
  * the supplier's certified data.
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { DimensionName } from '../units/quantity.js';
 
 export interface Sourced {

@@ -8,7 +8,7 @@
  * (derived here by integrating ln r four times; terms linear in x or y, which the differences cancel,
  * dropped; G is even in x and y, so it serves every quadrant).
  */
-import { gaussLegendre } from '../solve/quadrature.js';
+import { gaussLegendre } from '../core/quadrature.js';
 
 function fourthAntiderivative(x: number, y: number): number {
   const x2 = x * x;

@@ -3,7 +3,7 @@
  * override any of them under `limits` (SI numbers after unit parsing; LIMIT_DIMENSIONS tells the loader
  * which dimension each key has).
  */
-import { InputError } from '../scenario/errors.js';
+import { InputError } from '../core/errors.js';
 import type { Dimension } from '../units/quantity.js';
 
 export interface EngineeringLimits {

@@ -1,0 +1,61 @@
+/**
+ * Filing what a command produced: a shot record, an overlay record or a comparison. One rule for every
+ * command: the target is a folder (a new file named date_scenario_hash.html, with -2, -3 … if taken) or a new
+ * file ending in .html; the page is written atomically and never replaces an existing file.
+ */
+import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { recordTag, reportDate } from '../output/provenance.js';
+import { reportBaseName, writeExactFile, writeNewFile } from '../output/write.js';
+import { buildShotReport } from '../report/html.js';
+import type { OverlayInput } from '../report/overlay.js';
+import { InputError } from '../core/errors.js';
+import type { AssessedShot } from './shoot.js';
+
+export const DEFAULT_REPORT_DIR = 'reports';
+
+export interface FilingPlace {
+  /** a folder, or a new file ending in .html (default: reports/) */
+  target?: string | undefined;
+  /** the file name without extension when the target is a folder */
+  baseName: string;
+  /** the option that named the target, for messages */
+  option?: string;
+}
+
+/** Write a page where `place` says; returns the path written. */
+export function fileRecord(html: string, place: FilingPlace): string {
+  const target = place.target ?? DEFAULT_REPORT_DIR;
+  const option = place.option ?? '--report';
+  if (target.toLowerCase().endsWith('.html')) {
+    writeExactFile(target, html, option);
+    return target;
+  }
+  if (existsSync(target) && !statSync(target).isDirectory()) {
+    throw new InputError(option, `${target} is a file; give a folder or a new file name ending in .html`);
+  }
+  mkdirSync(target, { recursive: true });
+  return writeNewFile(target, place.baseName, '.html', html);
+}
+
+/** The base name of a shot's record: date, scenario name, a short hash of the scenario and tool version. */
+export function recordBaseName(assessed: AssessedShot, suffix = ''): string {
+  return `${reportBaseName(reportDate(), assessed.loaded.scenario.name, recordTag(assessed.loaded.sha256))}${suffix}`;
+}
+
+/** The HTML record of an assessed shot (with measured traces over it when `overlay` is given). */
+export function shotRecordHtml(assessed: AssessedShot, overlay?: OverlayInput): string {
+  return buildShotReport({
+    scenarioRaw: assessed.loaded.raw,
+    scenario: assessed.scenario,
+    shot: assessed.shot,
+    provenance: assessed.provenance,
+    warnings: assessed.assessment.warnings.map((w) => w.message),
+    checks: assessed.assessment.checks,
+    ...(overlay ? { overlay } : {}),
+  });
+}
+
+/** Build and file the record of a shot; returns its path. */
+export function recordShot(assessed: AssessedShot, target?: string, overlay?: OverlayInput): string {
+  return fileRecord(shotRecordHtml(assessed, overlay), { target, baseName: recordBaseName(assessed, overlay ? '_overlay' : '') });
+}
