@@ -1,7 +1,7 @@
 // Benchmark, not a test (vitest runs *.test.ts only): `npx tsx test/checks/bench-inductance.ts`.
 // Prints the time of fresh converged field solutions and of cached lookups; belongs in bench/ when the
 // lead wires the benchmarks.
-import { clearInductanceCache, inductanceGradientOf, type RailGeometry } from '../src/checks/inductance.js';
+import { clearInductanceCache, inductanceGradientOf, type RailGeometry } from '../src/conductors/inductance.js';
 
 const shapes: Array<[string, RailGeometry]> = [
   ['square rails h = w = s', { kind: 'rectangular', height: 0.02, width: 0.02, separation: 0.02 }],
