@@ -5,9 +5,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { unit as mathUnit } from 'mathjs';
-import { readMeasurement, readPositionPoints, type Measurement, type MeasurementOptions, type PositionPoints } from '../measure/csv.js';
+import { readMeasurementFile, readMeasurementHeader, readPositionPoints, type Measurement, type MeasurementOptions, type PositionPoints } from '../measure/csv.js';
 import type { FitNoise, FreeParameter, ResidualGroup } from '../measure/fit.js';
-import { readTable } from '../measure/table.js';
 import { InputError } from '../core/errors.js';
 import { dimensionOfPath, fieldAt, quantityPaths } from '../scenario/fields.js';
 import { getScenarioPath, parsePath } from '../scenario/paths.js';
@@ -70,10 +69,10 @@ export function quantityOption(option: string, text: string, dimension: Dimensio
  * (`t=2us`) is converted to the unit of its column (from --unit or the header); a plain number is taken
  * in the column's unit already.
  */
-function offsetsInColumnUnits(text: string, source: string, offsets: Record<string, string>, units: Record<string, string>, map: Record<string, string>): Record<string, number> {
+function offsetsInColumnUnits(source: string, offsets: Record<string, string>, units: Record<string, string>, map: Record<string, string>): Record<string, number> {
   const out: Record<string, number> = {};
   if (Object.keys(offsets).length === 0) return out;
-  const table = readTable(text, source);
+  const table = readMeasurementHeader(source, source);
   for (const [key, value] of Object.entries(offsets)) {
     const column = table.columns.find((c) => c.header === key || c.name === key || (map[c.header] ?? map[c.name] ?? c.name) === key);
     if (!column) throw new InputError('--offset', `"${key}" is not a column of ${source} (columns: ${table.columns.map((c) => `"${c.header}"`).join(', ')})`);
@@ -101,9 +100,8 @@ export interface MeasuredInputs {
   exitTime?: number;
 }
 
-/** Read the measurement file and the measured figures named by the options. */
-export function readMeasuredInputs(file: string, flags: MeasureFlags, railLength: number): MeasuredInputs {
-  const text = readText(file, 'measurement');
+/** Read the measurement file (streamed: exports of millions of rows) and the measured figures named by the options. */
+export function readMeasuredInputs(file: string, flags: MeasureFlags, scenario: Scenario): MeasuredInputs {
   const map = pairs('--map', flags.map, 'HEADER=SIGNAL, e.g. --map CH1=I');
   const units = pairs('--unit', flags.unit, 'HEADER=UNIT, e.g. --unit CH1=kA');
   const scale: Record<string, number> = {};
@@ -111,9 +109,10 @@ export function readMeasuredInputs(file: string, flags: MeasureFlags, railLength
     if (!PLAIN_NUMBER.test(value) || Number(value) === 0) throw new InputError('--scale', `${key}=${value}: expected a plain non-zero number (the factor, in the column's unit)`);
     scale[key] = Number(value);
   }
-  const offset = offsetsInColumnUnits(text, file, pairs('--offset', flags.offset, 'HEADER=VALUE, e.g. --offset t=2us'), units, map);
+  const offset = offsetsInColumnUnits(file, pairs('--offset', flags.offset, 'HEADER=VALUE, e.g. --offset t=2us'), units, map);
   const options: MeasurementOptions = { source: file, map, units, scale, offset };
-  const measurement = readMeasurement(text, options);
+  const measurement = readMeasurementFile(file, options);
+  const railLength = scenario.rails.length;
   const positions = flags.positions ? readPositionPoints(readText(flags.positions, '--positions'), { source: flags.positions }) : undefined;
   const muzzleVelocity = flags.muzzleVelocity === undefined ? undefined : quantityOption('--muzzle-velocity', flags.muzzleVelocity, DIMENSIONS.velocity);
   let exitTime = flags.exitTime === undefined ? undefined : quantityOption('--exit-time', flags.exitTime, DIMENSIONS.time);
@@ -193,13 +192,13 @@ export function parseFreeList(list: string[] | undefined, scenario: Scenario): F
 
 const GROUPS: ResidualGroup[] = ['I', 'V_breech', 'V_muzzle', 'position', 'muzzleVelocity'];
 
-/** `--weight SIGNAL=W`: a plain positive factor per residual group. */
+/** `--weight SIGNAL=W`: a plain factor ≥ 0 per residual group; 0 leaves the group out of the fit. */
 export function parseWeights(list: string[] | undefined): Partial<Record<ResidualGroup, number>> {
   const out: Partial<Record<ResidualGroup, number>> = {};
   for (const [key, value] of Object.entries(pairs('--weight', list, 'SIGNAL=W, e.g. --weight V_breech=0.5'))) {
     if (!(GROUPS as string[]).includes(key)) throw new InputError('--weight', `"${key}" is not a signal; expected one of ${GROUPS.join(', ')}`);
     const weight = Number(value);
-    if (!PLAIN_NUMBER.test(value) || !(weight > 0)) throw new InputError('--weight', `${key}=${value}: expected a positive number`);
+    if (!PLAIN_NUMBER.test(value) || !(weight >= 0) || !Number.isFinite(weight)) throw new InputError('--weight', `${key}=${value}: expected a number ≥ 0 (0 leaves ${key} out)`);
     out[key as ResidualGroup] = weight;
   }
   return out;

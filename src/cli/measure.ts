@@ -28,9 +28,13 @@ const CAUTION =
   'A calibrated model is still a model: before charging a bank for the next shot, follow your institution\'s safety rules, local codes and licensed practice — a charged capacitor bank can kill.';
 
 interface OverlayFlags extends MeasureFlags {
-  report?: string;
+  /** a folder or .html file; false with --no-report */
+  report?: string | boolean;
   json?: boolean;
+  wholeShot?: boolean;
 }
+
+const reportTarget = (flags: OverlayFlags): string | undefined => (typeof flags.report === 'string' ? flags.report : undefined);
 
 interface FitFlags extends OverlayFlags {
   free?: string[];
@@ -55,13 +59,14 @@ function compare(shot: Shot, inputs: MeasuredInputs): GoodnessOfFit {
 }
 
 /** The overlay part of the record: the measured traces, the figures given on the command line, the goodness of fit. */
-function overlayInput(inputs: MeasuredInputs, goodness: GoodnessOfFit, fit?: OverlayFit): OverlayInput {
+function overlayInput(inputs: MeasuredInputs, goodness: GoodnessOfFit, flags: OverlayFlags, fit?: OverlayFit): OverlayInput {
   return {
     measurement: inputs.measurement,
     ...(inputs.positions ? { positions: inputs.positions } : {}),
     measured: measuredFigures(inputs),
     goodness,
     ...(fit ? { fit } : {}),
+    ...(flags.wholeShot ? { wholeShot: true } : {}),
   };
 }
 
@@ -79,20 +84,31 @@ function goodnessLines(goodness: GoodnessOfFit): string[] {
   row('exit time', goodness.exitTime, 's');
   row('muzzle velocity', goodness.muzzleVelocity, 'm/s', false);
   if (goodness.arrivalTimeErrors) lines.push(`  probe arrival-time errors: ${goodness.arrivalTimeErrors.map((e) => (e === null ? 'not reached' : formatQuantity(e, 's'))).join(', ')}`);
+  const rule = goodness.samples;
+  if (rule && rule.excluded.length > 0) {
+    lines.push(`  not compared: ${rule.excluded.length} sample(s) within one sample interval (${formatQuantity(rule.interval, 's')}) of a switching instant of the model${timesList(rule.excluded)}`);
+  }
   return lines;
+}
+
+/** At most a few times, for a terminal line; the record and --json list them all. */
+function timesList(times: readonly (number | null)[]): string {
+  const shown = times.slice(0, 8).map((t) => (t === null ? 'muzzle velocity' : formatQuantity(t, 's')));
+  return shown.length ? ` (at ${shown.join(', ')}${times.length > shown.length ? `, … ${times.length - shown.length} more` : ''})` : '';
 }
 
 export function overlayCommand(file: string, csv: string, flags: OverlayFlags): GoodnessOfFit {
   const loaded = loadScenarioFile(file);
-  const inputs = readMeasuredInputs(csv, flags, loaded.scenario.rails.length);
+  const inputs = readMeasuredInputs(csv, flags, loaded.scenario);
   const assessed: AssessedShot = shoot(loaded, { scenario: sampledLikeMeasurement(loaded.scenario, inputs.measurement) });
   const goodness = compare(assessed.shot, inputs);
-  const written = recordShot(assessed, flags.report, overlayInput(inputs, goodness));
+  const written = flags.report === false ? null : recordShot(assessed, reportTarget(flags), overlayInput(inputs, goodness, flags));
+  const reportLine = written ? [`report: ${written}`] : [];
   if (flags.json) {
     process.stdout.write(toJson(goodness));
-    process.stderr.write(`report: ${written}\n`);
+    if (written) process.stderr.write(`report: ${written}\n`);
   } else {
-    process.stdout.write([`overlay of ${csv} on ${file}:`, ...goodnessLines(goodness), `report: ${written}`].join('\n') + '\n');
+    process.stdout.write([`overlay of ${csv} on ${file}:`, ...goodnessLines(goodness), ...reportLine].join('\n') + '\n');
   }
   return goodness;
 }
@@ -101,12 +117,25 @@ export function overlayCommand(file: string, csv: string, flags: OverlayFlags): 
 function overlayFit(fit: FitResult): OverlayFit {
   const parameters: OverlayFit['parameters'] = {};
   for (const [path, p] of Object.entries(fit.parameters)) parameters[path] = { value: p.value, uncertainty: p.uncertainty, initial: p.initial, unit: siUnitOfPath(path) };
-  return { parameters, correlations: fit.correlations, residual: fit.residual, shots: fit.shots, iterations: fit.iterations, warnings: fit.warnings };
+  const { samples } = fit;
+  return {
+    parameters,
+    correlations: fit.correlations,
+    residual: fit.residual,
+    shots: fit.shots,
+    iterations: fit.iterations,
+    warnings: fit.warnings,
+    outerIterations: samples.outerIterations,
+    huberThreshold: samples.huberThreshold,
+    blockSize: samples.blockSize,
+    excluded: samples.excluded,
+    downWeighted: samples.downWeighted,
+  };
 }
 
 function fitLines(fit: FitResult, seconds: number): string[] {
   const names = Object.keys(fit.parameters);
-  const width = Math.max(...names.map((n) => n.length));
+  const width = names.reduce((w, n) => Math.max(w, n.length), 0);
   const lines = [`fit ${fit.converged ? 'converged' : 'did NOT converge'} after ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s (${fit.message})`];
   for (const name of names) {
     const p = fit.parameters[name]!;
@@ -126,6 +155,10 @@ function fitLines(fit: FitResult, seconds: number): string[] {
     .map(([name, g]) => `${name} RMS ${g.rmsSI.toPrecision(3)} (σ ${g.noise.toPrecision(3)}, ${g.points} points)`)
     .join('; ');
   lines.push(`residual: RMS ${fit.residual.rms.toPrecision(3)} noise units, χ²/ν = ${fit.residual.chiSquaredReduced.toPrecision(3)}; ${groups} (SI)`);
+  const s = fit.samples;
+  const decimated = s.blockSize > 1 ? `; record decimated into means of ${s.blockSize} samples, single samples kept next to each switching instant` : '';
+  lines.push(`samples: Δt ${formatQuantity(s.interval, 's')}; ${s.excluded.length} left out within Δt of the model's ${s.instants.length} switching instants${timesList(s.excluded)}; ${s.outsideWindow} outside the model's span; ${s.outerIterations} fit run(s) with the set fixed${decimated}`);
+  lines.push(`down-weighted (Huber, beyond ${s.huberThreshold} σ): ${s.downWeighted.length}${timesList(s.downWeighted.map((d) => d.t))}`);
   for (const warning of fit.warnings) lines.push(`warning: ${warning}`);
   return lines;
 }
@@ -148,7 +181,7 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
   const free = parseFreeList(flags.free, loaded.scenario);
   const weights = parseWeights(flags.weight);
   const noise = parseNoise(flags.noise);
-  const inputs = readMeasuredInputs(csv, flags, loaded.scenario.rails.length);
+  const inputs = readMeasuredInputs(csv, flags, loaded.scenario);
   const started = performance.now();
   const fit = inFile(file, () =>
     fitScenario({
@@ -177,15 +210,16 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
 
   const assessed = shoot(loadedCalibrated, { scenario: sampledLikeMeasurement(calibrated.scenario, inputs.measurement) });
   const goodness = compare(assessed.shot, inputs);
-  const reportPath = recordShot(assessed, flags.report, overlayInput(inputs, goodness, overlayFit(fit)));
+  const reportPath = flags.report === false ? null : recordShot(assessed, reportTarget(flags), overlayInput(inputs, goodness, flags, overlayFit(fit)));
+  const reportLine = reportPath ? [`report: ${reportPath}`] : [];
 
   if (flags.json) {
     const parameters = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty, initial: p.initial }]));
-    process.stdout.write(toJson({ parameters, correlations: fit.correlations, residual: fit.residual }));
+    process.stdout.write(toJson({ parameters, correlations: fit.correlations, residual: fit.residual, samples: fit.samples }));
     const warnings = fit.warnings.map((w) => `warning: ${w}\n`).join('');
-    process.stderr.write(`fit: ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s\n${warnings}calibrated scenario: ${scenarioPath}\nreport: ${reportPath}\n${CAUTION}\n`);
+    process.stderr.write([`fit: ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s`, ...warnings.split('\n').filter(Boolean), `calibrated scenario: ${scenarioPath}`, ...reportLine, CAUTION].join('\n') + '\n');
   } else {
-    const lines = [`fit of ${file} to ${csv}:`, ...fitLines(fit, seconds), 'calibrated shot against the measurement:', ...goodnessLines(goodness), `calibrated scenario: ${scenarioPath}`, `report: ${reportPath}`, CAUTION];
+    const lines = [`fit of ${file} to ${csv}:`, ...fitLines(fit, seconds), 'calibrated shot against the measurement:', ...goodnessLines(goodness), `calibrated scenario: ${scenarioPath}`, ...reportLine, CAUTION];
     process.stdout.write(lines.join('\n') + '\n');
   }
   return fit;
@@ -201,6 +235,8 @@ function measureOptions(command: Command): Command {
     .option('--muzzle-velocity <value>', 'measured muzzle velocity, e.g. 512m/s')
     .option('--exit-time <value>', 'measured exit time, e.g. 1.32ms (a probe at the muzzle gives it too)')
     .option('--report <path>', `where to write the HTML report: a folder, or a new file ending in .html (default: ${DEFAULT_REPORT_DIR}/)`)
+    .option('--no-report', 'do not write the HTML report')
+    .option('--whole-shot', "draw the model over the whole simulated shot, not only over the record's span")
     .option('--json', 'print the result as JSON (SI) on stdout and nothing else');
 }
 
@@ -208,7 +244,7 @@ export function registerMeasureCommands(program: Command): void {
   measureOptions(
     program
       .command('overlay')
-      .description("draw a fired shot's measured signals over the simulated ones; goodness of fit and an HTML report")
+      .description("a fired shot's measured signals against the model: goodness of fit and an HTML report")
       .argument('<scenario>', 'scenario file (JSON)')
       .argument('<measured>', 'oscilloscope / DAQ export (CSV): t and I, V_breech, V_muzzle columns with units'),
   ).action((file: string, csv: string, flags: OverlayFlags) => {
@@ -221,7 +257,7 @@ export function registerMeasureCommands(program: Command): void {
       .argument('<scenario>', 'scenario file (JSON)')
       .argument('<measured>', 'oscilloscope / DAQ export (CSV)')
       .option('--free <PATH[=lo:hi]>', 'a parameter to fit, with optional bounds in units, e.g. rails.inductanceGradient=0.3uH/m:0.6uH/m (repeatable)', collect)
-      .option('--weight <SIGNAL=W>', 'weight of I, V_breech, V_muzzle, position or muzzleVelocity (default 1; repeatable)', collect)
+      .option('--weight <SIGNAL=W>', 'weight of I, V_breech, V_muzzle, position or muzzleVelocity (default 1; 0 leaves it out; repeatable)', collect)
       .option('--noise <SIGNAL=VALUE>', 'noise σ of a signal with its unit, e.g. I=200A (default: estimated from the record; repeatable)', collect),
   ).action((file: string, csv: string, flags: FitFlags) => {
     fitCommand(file, csv, flags);

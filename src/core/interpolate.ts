@@ -5,7 +5,7 @@
  * event instant (left and right limits); a query exactly there takes the right limit, and an interval of
  * zero length is never divided by. Outside the sampled span the end values are held.
  */
-export function interpolateSorted(t: readonly number[], y: readonly number[], queries: readonly number[]): number[] {
+export function interpolateSorted(t: ArrayLike<number>, y: ArrayLike<number>, queries: ArrayLike<number>): number[] {
   const out = new Array<number>(queries.length);
   const last = t.length - 1;
   let k = 0;
@@ -32,8 +32,30 @@ export function interpolateSorted(t: readonly number[], y: readonly number[], qu
   return out;
 }
 
-function rightmostAt(t: readonly number[], index: number): number {
+function rightmostAt(t: ArrayLike<number>, index: number): number {
   let k = index;
   while (k + 1 < t.length && t[k + 1] === t[index]) k++;
   return k;
+}
+
+/**
+ * The same interpolation one query at a time, for queries that mostly increase (a scan over a record of
+ * millions of samples needs no output array). A query exactly at an event instant takes the right limit.
+ */
+export function interpolationCursor(t: ArrayLike<number>, y: ArrayLike<number>): (time: number) => number {
+  const last = t.length - 1;
+  let k = 0;
+  return (time) => {
+    if (last < 0) return NaN;
+    if (time <= t[0]!) {
+      if (time < t[0]!) return y[0]!;
+      let first = 0;
+      while (first < last && t[first + 1] === t[0]) first++;
+      return y[first]!;
+    }
+    if (time >= t[last]!) return y[last]!;
+    if (t[k]! > time) k = 0;
+    while (t[k + 1]! <= time) k++;
+    return y[k]! + ((y[k + 1]! - y[k]!) * (time - t[k]!)) / (t[k + 1]! - t[k]!);
+  };
 }

@@ -16,7 +16,8 @@
 import { unit as mathUnit } from 'mathjs';
 import { InputError } from '../core/errors.js';
 import { normaliseUnitText, parseWithUnit } from '../units/quantity.js';
-import { readTable, type Table, type TableColumn } from './table.js';
+import { fileLines, textLines, type LineReader } from './lines.js';
+import { openTable, readTable, type TableColumn, type TableLayout, type TableStream } from './table.js';
 
 export const SIGNAL_NAMES = ['I', 'V_breech', 'V_muzzle'] as const;
 export type SignalName = (typeof SIGNAL_NAMES)[number];
@@ -51,11 +52,14 @@ export interface MeasuredColumn {
   offset: number;
 }
 
+/** Sample values: what the reader produces (typed arrays), or plain arrays built by a caller. */
+export type SampleArray = Float64Array | readonly number[];
+
 export interface Measurement {
   /** sample times (s), strictly increasing */
-  t: number[];
+  t: SampleArray;
   /** SI signals on the same samples: A for I, V for voltages */
-  signals: Partial<Record<SignalName, number[]>>;
+  signals: Partial<Record<SignalName, SampleArray>>;
   /** the file it came from */
   source: string;
   /** how each used column was read (for the report) */
@@ -70,10 +74,52 @@ export interface PositionPoints {
   source: string;
 }
 
-/** Read an oscilloscope / DAQ export. Throws InputError at `file:line` for anything it cannot read. */
+/** Read an oscilloscope / DAQ export held as text. Throws InputError at `file:line` for anything it cannot read. */
 export function readMeasurement(text: string, options: MeasurementOptions): Measurement {
+  return readMeasurementLines(textLines(text, options.source), options);
+}
+
+/**
+ * Read an oscilloscope / DAQ export from a file, a chunk at a time: memory is the columns kept (8 bytes a
+ * value), whatever the file's size. Throws InputError at `file:line` for anything it cannot read.
+ */
+export function readMeasurementFile(path: string, options: MeasurementOptions): Measurement {
+  let reader: LineReader;
+  try {
+    reader = fileLines(path, options.source);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    throw new InputError(options.source, code === 'ENOENT' ? 'no such file' : `cannot read the file (${code ?? 'error'})`);
+  }
+  return readMeasurementLines(reader, options);
+}
+
+/** The header of an export (its columns and their units as written), without reading its rows. */
+export function readMeasurementHeader(path: string, source: string): TableLayout {
+  let reader: LineReader;
+  try {
+    reader = fileLines(path, source);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    throw new InputError(source, code === 'ENOENT' ? 'no such file' : `cannot read the file (${code ?? 'error'})`);
+  }
+  const table = openTable(reader, source);
+  table.close();
+  return table;
+}
+
+function readMeasurementLines(reader: LineReader, options: MeasurementOptions): Measurement {
   const { source } = options;
-  const table = readTable(text, source);
+  const table = openTable(reader, source);
+  try {
+    return readRows(table, options);
+  } finally {
+    table.close();
+  }
+}
+
+function readRows(table: TableStream, options: MeasurementOptions): Measurement {
+  const { source } = options;
   const where = `${source}:${table.headerLine}`;
   const roles = table.columns.map((column) => roleOf(column, options.map, where));
   checkOptionKeys(table.columns, roles, options, source);
@@ -100,15 +146,55 @@ export function readMeasurement(text: string, options: MeasurementOptions): Meas
   const time = columns.find((c) => c.role === 't');
   if (!time) throw new InputError(where, `no time column: name one "t [unit]" or map a header to t`);
   if (columns.length < 2) throw new InputError(where, `no signal column: expected I, V_breech or V_muzzle (or map a header to one)`);
-  if (table.rows.length === 0) throw new InputError(where, 'no numeric rows after the header');
 
-  const values = (c: { index: number; scale: number; offset: number; factor: number }): number[] =>
-    table.rows.map((row) => (row[c.index]! * c.scale + c.offset) * c.factor);
-  const t = values(time);
-  checkIncreasing(t, table, source);
-  const signals: Partial<Record<SignalName, number[]>> = {};
-  for (const c of columns) if (c.role !== 't') signals[c.role] = values(c);
+  // one growable column per kept signal, sized from the file's size so that it rarely grows
+  const expectedRows = Math.ceil((1.02 * table.size) / Math.max(4, table.typicalRowLength)) + 16;
+  const stores = columns.map(() => growableColumn(expectedRows));
+  const row = new Float64Array(table.columns.length);
+  let previousTime = -Infinity;
+  for (let line = table.nextRow(row); line > 0; line = table.nextRow(row)) {
+    columns.forEach((c, k) => {
+      const value = (row[c.index]! * c.scale + c.offset) * c.factor;
+      if (c === time) {
+        if (!Number.isFinite(value)) throw new InputError(`${source}:${line}`, 'time is not a finite number');
+        if (!(value > previousTime)) throw new InputError(`${source}:${line}`, `time is not increasing (${fmt(value)} s after ${fmt(previousTime)} s)`);
+        previousTime = value;
+      }
+      stores[k]!.push(value);
+    });
+  }
+  if (stores[0]!.length === 0) throw new InputError(where, 'no numeric rows after the header');
+  const signals: Partial<Record<SignalName, Float64Array>> = {};
+  let t: Float64Array = new Float64Array(0);
+  columns.forEach((c, k) => {
+    const values = stores[k]!.finish();
+    if (c.role === 't') t = values;
+    else signals[c.role] = values;
+  });
   return { t, signals, source, columns: columns.map(({ role, header, unit, scale, offset }) => ({ role, header, unit, scale, offset })) };
+}
+
+/** A Float64Array that grows geometrically (×2) and is trimmed at the end. */
+function growableColumn(initial: number) {
+  let data = new Float64Array(Math.max(16, initial));
+  let length = 0;
+  return {
+    get length() {
+      return length;
+    },
+    push(value: number): void {
+      if (length === data.length) {
+        const grown = new Float64Array(data.length * 2);
+        grown.set(data);
+        data = grown;
+      }
+      data[length++] = value;
+    },
+    /** the values; copied only when the buffer is much larger than what it holds */
+    finish(): Float64Array {
+      return length * 1.25 < data.length ? data.slice(0, length) : data.subarray(0, length);
+    },
+  };
 }
 
 /** Probe arrival times: columns `x [m]` and `t [us]` in any order. Sorted by position; times must increase. */
@@ -189,15 +275,6 @@ function convertUnit(unit: string, si: string, noun: string, header: string, whe
     // fall through to the dimension message
   }
   throw new InputError(where, `unit "${unit}" of column "${header}" is not ${noun}`);
-}
-
-function checkIncreasing(t: number[], table: Table, source: string): void {
-  for (let i = 0; i < t.length; i++) {
-    if (!Number.isFinite(t[i]!)) throw new InputError(`${source}:${table.lines[i]}`, 'time is not a finite number');
-    if (i > 0 && !(t[i]! > t[i - 1]!)) {
-      throw new InputError(`${source}:${table.lines[i]}`, `time is not increasing (${fmt(t[i]!)} s after ${fmt(t[i - 1]!)} s)`);
-    }
-  }
 }
 
 /** Six significant digits; exponent form for the small times a scope records. */

@@ -3,14 +3,20 @@
  * its time, exit time and muzzle velocity when they were measured, probe arrival times. Errors are
  * model − measured, in SI. Pure.
  *
+ * The RMS errors follow the fit's rule for switching instants (./switching.ts): samples closer than one
+ * sample interval to a switching instant of the model are not compared (they are counted and listed), and
+ * neither are samples outside the model's span. One pass over the record, no copies of it: a record of ten
+ * million samples costs its own memory only.
+ *
  * The measured peak is the signed maximum of I refined by a parabola (./waveform.ts locatePeak); a probe
  * wired with reversed polarity should be read with scale −1. The model peak is the located one from the
  * shot's results.
  */
 import type { Shot } from '../solve/types.js';
-import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SignalName } from './csv.js';
-import { interpolateSorted } from '../core/interpolate.js';
-import { locatePeak } from './waveform.js';
+import { interpolationCursor } from '../core/interpolate.js';
+import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SampleArray, type SignalName } from './csv.js';
+import { lowerBound, rangeCursor, samplesNearInstants, switchingInstants, upperBound, type IndexRanges } from './switching.js';
+import { largestMagnitude, locatePeak, medianInterval } from './waveform.js';
 
 export interface Comparison {
   model: number;
@@ -22,15 +28,30 @@ export interface Comparison {
 }
 
 export interface SignalAgreement {
-  /** RMS of model − measured over the measured samples within the model's time span (SI) */
+  /** RMS of model − measured over the measured samples compared (SI) */
   rms: number;
   /** rms divided by the largest |measured| value */
   relativeRms: number;
+  /** samples compared: within the model's span, not next to a switching instant */
   points: number;
+}
+
+/** Which samples were compared: the switching rule at this model. */
+export interface SampleRule {
+  /** the record's median sample interval Δt (s) */
+  interval: number;
+  /** switching instants of the model (s) */
+  instants: number[];
+  /** times of the samples left out (closer than Δt to an instant) */
+  excluded: number[];
+  /** samples outside the model's span */
+  outside: number;
 }
 
 export interface GoodnessOfFit {
   signals: Partial<Record<SignalName, SignalAgreement>>;
+  /** absent when nothing was measured on a time base */
+  samples?: SampleRule;
   peakCurrent?: Comparison;
   peakCurrentTime?: Comparison;
   exitTime?: Comparison;
@@ -48,24 +69,26 @@ export interface MeasuredFigures {
 export function goodnessOfFit(shot: Shot, measurement: Measurement | undefined, figures: MeasuredFigures = {}): GoodnessOfFit {
   const result: GoodnessOfFit = { signals: {} };
   const waveforms = shot.waveforms;
-  if (measurement && waveforms && waveforms.t.length > 0) {
-    const tEnd = waveforms.t.at(-1)!;
-    const tStart = waveforms.t[0]!;
-    const used = measurement.t.map((_, j) => j).filter((j) => measurement.t[j]! >= tStart && measurement.t[j]! <= tEnd);
-    const times = used.map((j) => measurement.t[j]!);
+  if (measurement && waveforms && waveforms.t.length > 0 && measurement.t.length > 0) {
+    const t = measurement.t;
+    const from = lowerBound(t, waveforms.t[0]!);
+    const to = upperBound(t, waveforms.t[waveforms.t.length - 1]!);
+    const interval = medianInterval(t);
+    const instants = switchingInstants(shot);
+    const excluded = Number.isFinite(interval) ? samplesNearInstants(t, instants, interval, from, to) : [];
+    const excludedTimes: number[] = [];
+    for (const [a, b] of excluded) for (let i = a; i < b; i++) excludedTimes.push(t[i]!);
+    result.samples = { interval, instants, excluded: excludedTimes, outside: t.length - (to - from) };
     const keys = { I: waveforms.current, V_breech: waveforms.breechVoltage, V_muzzle: waveforms.muzzleVoltage };
     for (const name of SIGNAL_NAMES) {
       const series = measurement.signals[name];
-      if (!series || used.length === 0) continue;
-      const model = interpolateSorted(waveforms.t, keys[name], times);
-      const errors = model.map((v, k) => v - series[used[k]!]!);
-      const peak = Math.max(...used.map((j) => Math.abs(series[j]!)));
-      const rms = Math.sqrt(errors.reduce((s, e) => s + e * e, 0) / errors.length);
-      result.signals[name] = { rms, relativeRms: peak > 0 ? rms / peak : NaN, points: errors.length };
+      if (!series) continue;
+      const agreement = signalAgreement(t, series, from, to, excluded, waveforms.t, keys[name]);
+      if (agreement) result.signals[name] = agreement;
     }
     const current = measurement.signals.I;
     if (current) {
-      const peak = locatePeak(measurement.t, current);
+      const peak = locatePeak(t, current);
       result.peakCurrent = compare(shot.results.peakCurrent, peak.value);
       result.peakCurrentTime = compare(shot.results.peakCurrentTime, peak.time);
     }
@@ -74,6 +97,24 @@ export function goodnessOfFit(shot: Shot, measurement: Measurement | undefined, 
   if (figures.exitTime !== undefined && shot.results.exitTime !== null) result.exitTime = compare(shot.results.exitTime, figures.exitTime);
   if (figures.positions && waveforms) result.arrivalTimeErrors = arrivalTimeErrors(shot, figures.positions);
   return result;
+}
+
+/** RMS of model − measured over samples [from, to) not in `excluded`, the model interpolated as it goes. */
+function signalAgreement(t: SampleArray, series: SampleArray, from: number, to: number, excluded: IndexRanges, modelT: ArrayLike<number>, model: ArrayLike<number>): SignalAgreement | undefined {
+  const left = rangeCursor(excluded);
+  const at = interpolationCursor(modelT, model);
+  let squares = 0;
+  let points = 0;
+  for (let i = from; i < to; i++) {
+    if (left(i)) continue;
+    const error = at(t[i]!) - series[i]!;
+    squares += error * error;
+    points++;
+  }
+  if (points === 0) return undefined;
+  const peak = largestMagnitude(series, from, to);
+  const rms = Math.sqrt(squares / points);
+  return { rms, relativeRms: peak > 0 ? rms / peak : NaN, points };
 }
 
 function compare(model: number, measured: number): Comparison {

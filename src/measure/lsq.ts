@@ -132,7 +132,7 @@ export function leastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
       break;
     }
     const rNorm = Math.sqrt(cost);
-    const worstCosine = Math.max(...free.map((i) => (norms[i]! > 0 && rNorm > 0 ? Math.abs(gradient[i]!) / (norms[i]! * rNorm) : 0)));
+    const worstCosine = largest(free.map((i) => (norms[i]! > 0 && rNorm > 0 ? Math.abs(gradient[i]!) / (norms[i]! * rNorm) : 0)));
     if (worstCosine <= gtol) {
       converged = true;
       message = 'gradient is zero to tolerance';
@@ -141,7 +141,7 @@ export function leastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
     const scale = free.map((i) => (norms[i]! > 0 ? norms[i]! : 1));
     const svd = thinSvd(jacobian.map((row) => free.map((i, k) => row[i]! / scale[k]!)));
     const projections = svd.jv[0] ? svd.jv[0].map((_, k) => svd.jv.reduce((sum, row, i) => sum + row[k]! * r[i]!, 0)) : [];
-    if (lambda < 0) lambda = 1e-3 * Math.max(...svd.singularValues.map((s) => s * s));
+    if (lambda < 0) lambda = 1e-3 * largest(svd.singularValues.map((s) => s * s));
 
     let accepted = false;
     let stopped = false;
@@ -158,7 +158,7 @@ export function leastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
       const step = pNew.map((x, i) => x - p[i]!);
       const predictedResidual = r.map((ri, row) => ri + step.reduce((sum, s, i) => sum + jacobian[row]![i]! * s, 0));
       const predicted = cost - sumOfSquares(predictedResidual);
-      const relChange = Math.max(...step.map((s, i) => Math.abs(s) / (Math.abs(p[i]!) + typical[i]!)));
+      const relChange = largest(step.map((s, i) => Math.abs(s) / (Math.abs(p[i]!) + typical[i]!)));
       if (relChange <= xtol * 1e-3 || !(predicted > 0)) {
         stopped = true;
         converged = true;
@@ -275,8 +275,8 @@ function covarianceAt(jacobian: number[][], r: number[], p: number[], lower: num
   let conditionNumber = 1;
   if (free.length > 0) {
     const svd = thinSvd(jacobian.map((row) => free.map((i, k) => row[i]! / scale[k]!)));
-    const sigmaMax = Math.max(...svd.singularValues);
-    const sigmaMin = Math.min(...svd.singularValues);
+    const sigmaMax = largest(svd.singularValues);
+    const sigmaMin = -largest(svd.singularValues.map((s) => -s));
     conditionNumber = sigmaMin > 0 ? sigmaMax / sigmaMin : Infinity;
     const floored = svd.singularValues.map((s) => Math.max(s, SIGMA_FLOOR * sigmaMax));
     free.forEach((i, a) => {
@@ -292,6 +292,13 @@ function covarianceAt(jacobian: number[][], r: number[], p: number[], lower: num
     row.map((c, j) => (i === j ? (atBound[i] ? NaN : 1) : atBound[i] || atBound[j] ? NaN : c / (standardErrors[i]! * standardErrors[j]!))),
   );
   return { covariance, standardErrors, correlations, conditionNumber, atBound, degreesOfFreedom };
+}
+
+/** Largest of a list (a loop: no argument spreading). */
+function largest(values: readonly number[]): number {
+  let max = -Infinity;
+  for (const value of values) if (value > max) max = value;
+  return max;
 }
 
 function withEntry(p: number[], i: number, value: number): number[] {

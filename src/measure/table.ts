@@ -3,8 +3,13 @@
  * Detects the separator (semicolon, tab or comma) and the decimal mark (a decimal comma only with a
  * semicolon or tab separator). Knows nothing about signals or units: ./csv.ts gives the columns meaning.
  * Every problem is an InputError at `file:line`.
+ *
+ * Streaming: the layout is detected on the first lines (up to DETECTION_LINES), then rows are parsed one
+ * line at a time into a caller's buffer (`openTable`), so a ten-million-row export never exists as text
+ * or as arrays of rows. `readTable` collects the rows of a small table (probe lists, tests).
  */
 import { InputError } from '../core/errors.js';
+import { textLines, type LineReader } from './lines.js';
 
 export interface TableColumn {
   /** the header cell as written (quotes removed, trimmed) */
@@ -15,17 +20,37 @@ export interface TableColumn {
   unit: string | undefined;
 }
 
-export interface Table {
+export interface TableLayout {
   columns: TableColumn[];
-  /** rows[r][c], numbers as written (no scaling, no unit conversion) */
-  rows: number[][];
-  /** 1-based file line of each row, for messages */
-  lines: number[];
   /** 1-based file line of the header */
   headerLine: number;
   separator: string;
   decimalComma: boolean;
 }
+
+export interface Table extends TableLayout {
+  /** rows[r][c], numbers as written (no scaling, no unit conversion) */
+  rows: number[][];
+  /** 1-based file line of each row, for messages */
+  lines: number[];
+}
+
+/** A table being read: its layout, then its rows one at a time. */
+export interface TableStream extends TableLayout {
+  /**
+   * Parse the next data row into `into` (one number per column, as written); returns the row's 1-based
+   * file line, or 0 after the last row. Blank lines are skipped.
+   */
+  nextRow(into: Float64Array): number;
+  /** mean length in characters of the data lines seen while detecting the layout (sizes buffers) */
+  typicalRowLength: number;
+  /** the input's size in characters or bytes (an estimate of the row count is size / typicalRowLength) */
+  size: number;
+  close(): void;
+}
+
+/** Lines looked at to find the header; metadata blocks of scope exports are far shorter. */
+const DETECTION_LINES = 2000;
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const COMMA_NUMBER = /^[+-]?(\d+,?\d*|,\d+)([eE][+-]?\d+)?$/;
@@ -108,42 +133,96 @@ export function splitHeader(header: string): TableColumn {
 
 const describeSeparator = (separator: string): string => (separator === '\t' ? 'tab' : `"${separator}"`);
 
-/** Read the table. `source` names the file in messages. */
-export function readTable(text: string, source: string): Table {
-  const lines = text.replace(/^\uFEFF/, '').split(/\r\n|\n|\r/);
-  const layout = detectLayout(lines);
+/** Open a table on a line reader: detect its layout on the first lines, then hand out rows one by one. */
+export function openTable(reader: LineReader, source: string): TableStream {
+  const head: string[] = [];
+  for (let line = reader.next(); line !== null; line = reader.next()) {
+    head.push(line);
+    if (head.length >= DETECTION_LINES) break;
+  }
+  const layout = detectLayout(head);
   if (!layout) {
+    reader.close();
     throw new InputError(`${source}:1`, 'no header row followed by numeric rows (expected e.g. "t [us],I [kA]" then numbers, separated by "," or ";")');
   }
   const { separator, decimalComma, headerIndex } = layout;
-  const columns = withoutTrailingEmpty(splitCells(lines[headerIndex]!, separator)).map(splitHeader);
+  const columns = withoutTrailingEmpty(splitCells(head[headerIndex]!, separator)).map(splitHeader);
   columns.forEach((column, c) => {
-    if (column.name === '') throw new InputError(`${source}:${headerIndex + 1}`, `column ${c + 1} has an empty header`);
-  });
-  const rows: number[][] = [];
-  const rowLines: number[] = [];
-  for (let index = headerIndex + 1; index < lines.length; index++) {
-    const line = lines[index]!;
-    if (line.trim() === '') continue;
-    const where = `${source}:${index + 1}`;
-    const cells = withoutTrailingEmpty(splitCells(line, separator));
-    if (cells.length !== columns.length) {
-      throw new InputError(where, `expected ${columns.length} cells separated by ${describeSeparator(separator)} like the header on line ${headerIndex + 1}, found ${cells.length}`);
+    if (column.name === '') {
+      reader.close();
+      throw new InputError(`${source}:${headerIndex + 1}`, `column ${c + 1} has an empty header`);
     }
-    rows.push(
-      cells.map((cell, c) => {
-        const header = columns[c]!.header;
-        if (cell === '') throw new InputError(where, `empty cell in column "${header}"`);
-        if (!isNumeric(cell, decimalComma)) {
-          const mark = decimalComma ? 'a decimal comma' : 'a decimal point';
-          throw new InputError(where, `expected a number with ${mark} in column "${header}", found "${cell}"`);
-        }
-        const value = Number(decimalComma ? cell.replace(',', '.') : cell);
-        if (!Number.isFinite(value)) throw new InputError(where, `number "${cell}" in column "${header}" is out of range`);
-        return value;
-      }),
-    );
-    rowLines.push(index + 1);
+  });
+  let dataCharacters = 0;
+  let dataLines = 0;
+  for (let index = headerIndex + 1; index < head.length; index++) {
+    dataCharacters += head[index]!.length + 1;
+    dataLines++;
   }
-  return { columns, rows, lines: rowLines, headerLine: headerIndex + 1, separator, decimalComma };
+  let headIndex = headerIndex + 1;
+  const nextLine = (): { text: string; line: number } | null => {
+    if (headIndex < head.length) {
+      const text = head[headIndex]!;
+      headIndex++;
+      return { text, line: headIndex };
+    }
+    const text = reader.next();
+    return text === null ? null : { text, line: reader.line };
+  };
+  const count = columns.length;
+  const parseRow = (text: string, line: number, into: Float64Array): void => {
+    const where = `${source}:${line}`;
+    const cells = withoutTrailingEmpty(splitCells(text, separator));
+    if (cells.length !== count) {
+      throw new InputError(where, `expected ${count} cells separated by ${describeSeparator(separator)} like the header on line ${headerIndex + 1}, found ${cells.length}`);
+    }
+    for (let c = 0; c < count; c++) {
+      const cell = cells[c]!;
+      const header = columns[c]!.header;
+      if (cell === '') throw new InputError(where, `empty cell in column "${header}"`);
+      if (!isNumeric(cell, decimalComma)) {
+        const mark = decimalComma ? 'a decimal comma' : 'a decimal point';
+        throw new InputError(where, `expected a number with ${mark} in column "${header}", found "${cell.length > 40 ? `${cell.slice(0, 40)}…` : cell}"`);
+      }
+      const value = Number(decimalComma ? cell.replace(',', '.') : cell);
+      if (!Number.isFinite(value)) throw new InputError(where, `number "${cell}" in column "${header}" is out of range`);
+      into[c] = value;
+    }
+  };
+  return {
+    columns,
+    headerLine: headerIndex + 1,
+    separator,
+    decimalComma,
+    typicalRowLength: dataLines > 0 ? dataCharacters / dataLines : 16,
+    size: reader.size,
+    close: () => reader.close(),
+    nextRow(into: Float64Array): number {
+      for (let next = nextLine(); next !== null; next = nextLine()) {
+        if (next.text.trim() === '') continue;
+        try {
+          parseRow(next.text, next.line, into);
+        } catch (error) {
+          reader.close();
+          throw error;
+        }
+        return next.line;
+      }
+      return 0;
+    },
+  };
+}
+
+/** Read a whole (small) table held as text. `source` names the file in messages. */
+export function readTable(text: string, source: string): Table {
+  const stream = openTable(textLines(text, source), source);
+  const rows: number[][] = [];
+  const lines: number[] = [];
+  const row = new Float64Array(stream.columns.length);
+  for (let line = stream.nextRow(row); line > 0; line = stream.nextRow(row)) {
+    rows.push(Array.from(row));
+    lines.push(line);
+  }
+  const { columns, headerLine, separator, decimalComma } = stream;
+  return { columns, rows, lines, headerLine, separator, decimalComma };
 }

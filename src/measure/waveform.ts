@@ -10,20 +10,70 @@
  * few samples at a switching edge. Assumes white (sample-to-sample independent) noise: a scope's bandwidth
  * limit correlates neighbouring samples and makes this an underestimate.
  */
-export function estimateNoise(y: readonly number[]): number {
-  if (y.length < 3) return NaN;
-  const second: number[] = [];
-  for (let i = 1; i + 1 < y.length; i++) second.push(y[i + 1]! - 2 * y[i]! + y[i - 1]!);
+export function estimateNoise(y: ArrayLike<number>, from = 0, to = y.length): number {
+  if (to - from < 3) return NaN;
+  const second = new Float64Array(to - from - 2);
+  for (let i = from + 1; i + 1 < to; i++) second[i - from - 1] = y[i + 1]! - 2 * y[i]! + y[i - 1]!;
   const centre = median(second);
-  const mad = median(second.map((d) => Math.abs(d - centre)));
-  return mad / 0.6744897501960817 / Math.sqrt(6);
+  for (let k = 0; k < second.length; k++) second[k] = Math.abs(second[k]! - centre);
+  return median(second) / 0.6744897501960817 / Math.sqrt(6);
 }
 
-export function median(values: readonly number[]): number {
-  if (values.length === 0) return NaN;
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+/** Median of a list (not modified); linear time on a typed copy (Hoare's selection, iterative). */
+export function median(values: ArrayLike<number>): number {
+  const n = values.length;
+  if (n === 0) return NaN;
+  const work = Float64Array.from(values as ArrayLike<number>);
+  const upper = select(work, n >> 1);
+  if (n % 2) return upper;
+  // the lower middle is the largest value left of the upper one after selection
+  let lower = -Infinity;
+  for (let i = 0; i < n >> 1; i++) if (work[i]! > lower) lower = work[i]!;
+  return (lower + upper) / 2;
+}
+
+/** The k-th smallest value (0-based); rearranges `work` so that smaller values lie left of k. */
+function select(work: Float64Array, k: number): number {
+  let left = 0;
+  let right = work.length - 1;
+  while (right > left) {
+    const pivot = work[(left + right) >> 1]!;
+    let i = left;
+    let j = right;
+    while (i <= j) {
+      while (work[i]! < pivot) i++;
+      while (work[j]! > pivot) j--;
+      if (i <= j) {
+        const swap = work[i]!;
+        work[i] = work[j]!;
+        work[j] = swap;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) right = j;
+    else if (k >= i) left = i;
+    else break;
+  }
+  return work[k]!;
+}
+
+/** Median spacing of increasing sample times: the record's sample interval, robust to a gap or an inserted sample. */
+export function medianInterval(t: ArrayLike<number>): number {
+  if (t.length < 2) return NaN;
+  const steps = new Float64Array(t.length - 1);
+  for (let i = 1; i < t.length; i++) steps[i - 1] = t[i]! - t[i - 1]!;
+  return median(steps);
+}
+
+/** Largest |value| of a series (no argument spreading: records hold millions of samples). */
+export function largestMagnitude(values: ArrayLike<number>, from = 0, to = values.length): number {
+  let largest = 0;
+  for (let i = from; i < to; i++) {
+    const magnitude = Math.abs(values[i]!);
+    if (magnitude > largest) largest = magnitude;
+  }
+  return largest;
 }
 
 export interface Peak {
@@ -38,7 +88,7 @@ export interface Peak {
  * interval on a series RLC pulse), the cubic's maximum does not. Falls back to the largest sample when the
  * fit has no maximum inside the window.
  */
-export function locatePeak(t: readonly number[], y: readonly number[]): Peak {
+export function locatePeak(t: ArrayLike<number>, y: ArrayLike<number>): Peak {
   let best = 0;
   for (let i = 1; i < y.length; i++) if (y[i]! > y[best]!) best = i;
   const top = y[best]!;

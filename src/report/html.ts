@@ -195,7 +195,8 @@ export function buildShotReport(input: ShotReportInput): string {
   };
   const overlayPlots = input.overlay ? overlayFigures(shot.waveforms, input.overlay, input.decimate) : [];
   const plotData = [...overlayPlots, ...figures].map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
-  return `${pageStart(`${scenario.name} \u2014 railpulse shot record`, { generator: `railpulse ${provenance.toolVersion}` })}
+  const title = input.overlay ? `${scenario.name} \u2014 measured against model (railpulse)` : `${scenario.name} \u2014 railpulse shot record`;
+  return `${pageStart(title, { generator: `railpulse ${provenance.toolVersion}` })}
 ${embeddedElements(block, input.scenarioRaw)}${input.overlay ? `\n${overlayElement(input.overlay)}` : ''}
 </head>
 <body data-plots="pending">

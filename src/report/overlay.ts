@@ -1,175 +1,18 @@
 /**
- * The measured-shot part of a shot report: measured traces drawn over the simulated ones with their
- * residuals (model − measured) underneath, probe arrival points over the simulated x(t), the goodness-of-fit
- * figures and, for a calibrated shot, the fitted parameters with their uncertainties and correlations.
- * Pure: the goodness of fit is computed by src/measure/goodness.ts and passed in; nothing is re-derived.
+ * The measured-shot part of a shot report: the measurement against the model (plots in ./overlay-plots.ts),
+ * the goodness-of-fit figures, which samples were compared (the rule at switching instants) and, for a
+ * calibrated shot, the fitted parameters with their uncertainties and correlations and the samples the fit
+ * down-weighted. Pure: the goodness of fit is computed by src/measure and passed in; nothing is re-derived.
  */
-import { interpolateSorted } from '../core/interpolate.js';
-import type { Waveforms } from '../solve/types.js';
-import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
-import { formatPlain, formatQuantity, scaleFor, NO_VALUE, type Scale } from './format.js';
-import { axis, baseLayout, maxAbs, round6, type PlotFigure } from './plots.js';
+import { formatPlain, formatQuantity, NO_VALUE } from './format.js';
+import type { PlotFigure } from './plots.js';
+import { SIGNALS, type Comparison, type GoodnessOfFit, type Measurement, type OverlayFit, type OverlayInput, type SignalName } from './overlay-types.js';
+
+export { overlayFigures } from './overlay-plots.js';
+export type * from './overlay-types.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
-
-/*
- * What the page draws of a measured shot. Declared here, by the page, so that the report does not depend on
- * the room that reads and fits measured records (src/measure): its types have this shape.
- */
-export type SignalName = 'I' | 'V_breech' | 'V_muzzle';
-
-export interface Measurement {
-  /** sample times (s), increasing */
-  t: readonly number[];
-  /** SI signals on the same samples */
-  signals: Partial<Record<SignalName, readonly number[]>>;
-  source: string;
-  columns: readonly { role: string; header: string; unit: string; scale: number; offset: number }[];
-}
-
-export interface PositionPoints {
-  x: readonly number[];
-  t: readonly number[];
-  source: string;
-}
-
-export interface Comparison {
-  model: number;
-  measured: number;
-  error: number;
-  relativeError: number;
-}
-
-export interface GoodnessOfFit {
-  signals: Partial<Record<SignalName, { rms: number; relativeRms: number; points: number }>>;
-  peakCurrent?: Comparison;
-  peakCurrentTime?: Comparison;
-  exitTime?: Comparison;
-  muzzleVelocity?: Comparison;
-  arrivalTimeErrors?: readonly (number | null)[];
-}
-
-export interface OverlayFitParameter {
-  value: number;
-  /** NaN (null in JSON) when the parameter stopped on a bound */
-  uncertainty: number;
-  initial: number;
-  /** SI unit symbol for display ('' for plain numbers) */
-  unit: string;
-}
-
-export interface OverlayFit {
-  parameters: Record<string, OverlayFitParameter>;
-  /** 'pathA|pathB' → correlation coefficient */
-  correlations: Record<string, number>;
-  residual: { rms: number; chiSquaredReduced: number };
-  shots: number;
-  iterations: number;
-  warnings: string[];
-}
-
-export interface OverlayInput {
-  measurement?: Measurement;
-  positions?: PositionPoints;
-  /** measured figures given on the command line (SI) */
-  measured: { muzzleVelocity?: number; exitTime?: number };
-  goodness: GoodnessOfFit;
-  fit?: OverlayFit;
-}
-
-const SIGNALS: Record<SignalName, { key: 'current' | 'breechVoltage' | 'muzzleVoltage'; label: string; unit: string }> = {
-  I: { key: 'current', label: 'rail current I', unit: 'A' },
-  V_breech: { key: 'breechVoltage', label: 'breech voltage', unit: 'V' },
-  V_muzzle: { key: 'muzzleVoltage', label: 'muzzle voltage', unit: 'V' },
-};
-
-const MODEL_COLOUR = '#1f3b73';
-const MEASURED_COLOUR = '#b8430e';
-
-
-const scaleAll = (values: readonly number[], scale: Scale): (number | null)[] => values.map((v) => round6(v * scale.factor));
-
-const layoutFor = (timeTitle: string, height: number): Record<string, unknown> => {
-  const { yaxis: _unused, ...layout } = baseLayout(timeTitle, '', height, {
-    legend: { orientation: 'h', x: 0, y: -0.16, yanchor: 'top' },
-    xaxis: axis(timeTitle, { anchor: 'y2' }),
-  });
-  return layout;
-};
-
-
-
-/** One signal: simulated and measured on top, the residual at the measured samples underneath. */
-function signalFigure(name: SignalName, waveforms: Waveforms, measurement: Measurement, time: Scale, decimate: DecimateOptions): PlotFigure | undefined {
-  const measured = measurement.signals[name];
-  if (!measured) return undefined;
-  const spec = SIGNALS[name];
-  const model = waveforms[spec.key];
-  const yScale = scaleFor(Math.max(maxAbs([model]), maxAbs([measured])));
-  const modelIdx = decimateIndices(waveforms.t, [model], decimate);
-  const measuredIdx = decimateIndices(measurement.t, [measured], decimate);
-  // residuals only where the model exists: outside its span a held end value would be a made-up number
-  const tStart = waveforms.t[0] ?? 0;
-  const tEnd = waveforms.t.at(-1) ?? 0;
-  const inside = measurement.t.map((_, j) => j).filter((j) => measurement.t[j]! >= tStart && measurement.t[j]! <= tEnd);
-  const insideT = inside.map((j) => measurement.t[j]!);
-  const modelAt = interpolateSorted(waveforms.t, model, insideT);
-  const residual = modelAt.map((v, k) => v - measured[inside[k]!]!);
-  const residualIdx = decimateIndices(insideT, [residual], decimate);
-  const rScale = scaleFor(maxAbs([residual]));
-  const layout = layoutFor(`Time (${time.prefix}s)`, 460);
-  layout['yaxis'] = axis(`${spec.label} (${yScale.prefix}${spec.unit})`, { domain: [0.36, 1] });
-  layout['yaxis2'] = axis(`residual (${rScale.prefix}${spec.unit})`, { domain: [0, 0.26] });
-  const data = [
-    // measured first, so the (smooth) model line stays visible on top of a noisy record
-    { type: 'scatter', mode: 'lines', name: `measured ${name}`, x: scaleAll(pick(measurement.t, measuredIdx), time), y: scaleAll(pick(measured, measuredIdx), yScale), xaxis: 'x', yaxis: 'y', line: { width: 1.1, color: MEASURED_COLOUR } },
-    { type: 'scatter', mode: 'lines', name: `simulated ${name}`, x: scaleAll(pick(waveforms.t, modelIdx), time), y: scaleAll(pick(model, modelIdx), yScale), xaxis: 'x', yaxis: 'y', line: { width: 1.8, color: MODEL_COLOUR } },
-    { type: 'scatter', mode: 'lines', name: `residual ${name} (model − measured)`, x: scaleAll(pick(insideT, residualIdx), time), y: scaleAll(pick(residual, residualIdx), rScale), xaxis: 'x', yaxis: 'y2', line: { width: 1, color: '#4d4d4d' } },
-  ];
-  return {
-    id: `plot-overlay-${name}`,
-    title: `Measured and simulated ${spec.label}`,
-    caption: `Measured ${name} from ${measurement.source} over the simulated one; below, the residual (model − measured) at the measured samples within the simulated span.`,
-    data,
-    layout,
-  };
-}
-
-function positionFigure(waveforms: Waveforms, positions: PositionPoints, time: Scale, decimate: DecimateOptions): PlotFigure {
-  const idx = decimateIndices(waveforms.t, [waveforms.position], decimate);
-  const xScale = scaleFor(Math.max(maxAbs([waveforms.position]), maxAbs([positions.x])));
-  const layout = layoutFor(`Time (${time.prefix}s)`, 340);
-  layout['xaxis'] = axis(`Time (${time.prefix}s)`);
-  layout['yaxis'] = axis(`Position (${xScale.prefix}m)`);
-  layout['hovermode'] = 'closest';
-  return {
-    id: 'plot-overlay-position',
-    title: 'Probe arrival times and simulated position',
-    caption: `Measured probe arrivals from ${positions.source} (points) on the simulated armature position x(t) (line).`,
-    data: [
-      { type: 'scatter', mode: 'lines', name: 'simulated x(t)', x: scaleAll(pick(waveforms.t, idx), time), y: scaleAll(pick(waveforms.position, idx), xScale), line: { width: 2, color: MODEL_COLOUR } },
-      { type: 'scatter', mode: 'markers', name: 'measured probe arrivals', x: scaleAll(positions.t, time), y: scaleAll(positions.x, xScale), marker: { size: 8, color: MEASURED_COLOUR, symbol: 'x' } },
-    ],
-    layout,
-  };
-}
-
-/** Overlay figures in page order: I, V_breech, V_muzzle (those measured), then probe positions. */
-export function overlayFigures(waveforms: Waveforms | null, overlay: OverlayInput, decimate: DecimateOptions = {}): PlotFigure[] {
-  if (!waveforms || waveforms.t.length === 0) return [];
-  const tMax = Math.max(waveforms.t.at(-1) ?? 0, overlay.measurement?.t.at(-1) ?? 0, ...(overlay.positions?.t ?? []));
-  const time = scaleFor(tMax);
-  const figures: PlotFigure[] = [];
-  if (overlay.measurement) {
-    for (const name of Object.keys(SIGNALS) as SignalName[]) {
-      const figure = signalFigure(name, waveforms, overlay.measurement, time, decimate);
-      if (figure) figures.push(figure);
-    }
-  }
-  if (overlay.positions && overlay.positions.x.length > 0) figures.push(positionFigure(waveforms, overlay.positions, time, decimate));
-  return figures;
-}
 
 function comparisonRow(key: string, label: string, c: Comparison | undefined, unit: string, prefix = true): string {
   if (!c) return '';
@@ -228,8 +71,34 @@ function fitTables(fit: OverlayFit): string {
           .join('')}</tbody></table>`
       : '';
   const warnings = fit.warnings.length ? `<ul class="fit-warnings">${fit.warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>` : '';
-  return `<h3>Calibration</h3><p class="note">Bounded least squares on the measured signals (each residual divided by its noise); one standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations; χ²/ν = ${formatPlain(fit.residual.chiSquaredReduced, 4)}.</p>
-<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted</th><th class="num">Uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}`;
+  const decimated = fit.blockSize > 1 ? ` The record was decimated for the fit into means of ${fit.blockSize} samples, single samples kept next to every switching instant.` : '';
+  return `<h3>Calibration</h3><p class="note">Bounded Levenberg–Marquardt on the measured signals, each residual divided by its noise and passed through Huber's loss (quadratic within ${fit.huberThreshold} noise units, linear beyond); samples closer than one sample interval to a switching instant of the model are left out, the set re-evaluated after each of the ${fit.outerIterations} run(s).${decimated} One standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations in the last run; χ²/ν = ${formatPlain(fit.residual.chiSquaredReduced, 4)}.</p>
+<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted</th><th class="num">Uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}${downWeightedTable(fit)}`;
+}
+
+/** Rows shown of the down-weighted list; the embedded data hold all of them. */
+const SHOWN_DOWN_WEIGHTED = 100;
+
+function downWeightedTable(fit: OverlayFit): string {
+  const list = fit.downWeighted;
+  if (list.length === 0) return `<p class="note" data-down-weighted="0">No sample lay beyond ${fit.huberThreshold} noise units at the optimum: every compared sample counted with full weight.</p>`;
+  const rows = list
+    .slice(0, SHOWN_DOWN_WEIGHTED)
+    .map((d) => `<tr data-down-weighted-t="${d.t ?? ''}"><td>${escapeHtml(d.group)}</td><td class="num">${d.t === null ? NO_VALUE : formatQuantity(d.t, 's')}</td><td class="num">${formatPlain(d.residual, 3)}</td><td class="num">${formatPlain(d.weight, 3)}</td></tr>`)
+    .join('');
+  const more = list.length > SHOWN_DOWN_WEIGHTED ? `<p class="note">… and ${list.length - SHOWN_DOWN_WEIGHTED} more (all are in the embedded data).</p>` : '';
+  return `<table class="down-weighted" data-down-weighted="${list.length}"><thead><tr><th>Down-weighted (Huber)</th><th class="num">Time</th><th class="num">Residual (σ)</th><th class="num">Weight</th></tr></thead><tbody>${rows}</tbody></table>${more}`;
+}
+
+/** Which samples were compared, and which were left out at switching instants. */
+function samplesNote(goodness: GoodnessOfFit): string {
+  const rule = goodness.samples;
+  if (!rule) return '';
+  const shown = rule.excluded.slice(0, 40).map((t) => formatQuantity(t, 's')).join(', ');
+  const more = rule.excluded.length > 40 ? ` and ${rule.excluded.length - 40} more` : '';
+  const left = rule.excluded.length > 0 ? `${rule.excluded.length} sample(s) lie closer than one sample interval (${formatQuantity(rule.interval, 's')}) to one of the model's ${rule.instants.length} switching instants and are not compared, as in the fit (at ${shown}${more}; marked ○ on the plots).` : `No sample lies closer than one sample interval (${formatQuantity(rule.interval, 's')}) to one of the model's ${rule.instants.length} switching instants.`;
+  const outside = rule.outside > 0 ? ` ${rule.outside} sample(s) lie outside the model's span.` : '';
+  return `<p class="note" data-excluded="${rule.excluded.length}">${left}${outside}</p>`;
 }
 
 /** The page section; `figures` are those of overlayFigures, drawn by the report's render script. */
@@ -238,10 +107,11 @@ export function overlaySection(overlay: OverlayInput, figures: PlotFigure[]): st
   const blocks = figures
     .map((f) => `<div class="plot-block"><h3>${escapeHtml(f.title)}</h3><p class="caption">${escapeHtml(f.caption)}</p><div class="plot" id="${f.id}" data-plot></div></div>`)
     .join('\n');
-  return `<section id="overlay"><h2>Measured and simulated</h2>
+  return `<section id="overlay"><h2>Measured against model</h2>
 <p class="note">Measured data from <code>${escapeHtml(source)}</code>, as read (scaled and offset as listed); everything else on this page is model output.</p>
 ${overlay.fit ? fitTables(overlay.fit) : ''}
 ${goodnessTable(overlay.goodness)}
+${samplesNote(overlay.goodness)}
 ${overlay.measurement ? columnsTable(overlay.measurement) : ''}
 ${blocks}
 </section>`;

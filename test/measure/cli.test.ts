@@ -41,7 +41,7 @@ describe('railpulse fit', () => {
   // (JᵀJ)⁻¹ of the linearised model (Press et al., Numerical Recipes, 3rd ed., §15.4–15.5). A Gaussian
   // estimate lies within 3σ of the truth with probability 99.7 %; the noise draw is seeded, so this is repeatable.
   it('recovers L′, contact resistance and μ within 3 reported σ (linearised covariance, Numerical Recipes §15.5)', () => {
-    expect(Object.keys(fit)).toEqual(['parameters', 'correlations', 'residual']);
+    expect(Object.keys(fit)).toEqual(['parameters', 'correlations', 'residual', 'samples']);
     for (const [path, truth] of Object.entries(TRUTH)) {
       const p = fit.parameters[path]!;
       expect(Object.keys(p)).toEqual(['value', 'uncertainty', 'initial']);
@@ -135,14 +135,18 @@ describe('railpulse overlay', () => {
     expect(Math.abs(goodness.muzzleVelocity.error)).toBeLessThan(1e-6 * fixture.muzzleVelocity);
   });
 
-  it('the report holds the measured traces over the simulated ones, the residuals and the probe points', () => {
+  it('the report holds the measured traces drawn over the model, the residuals and the probe points', () => {
     const reports = readdirSync(out()).filter((f) => f.endsWith('.html'));
     const written = first.stderr.trim().replace(/^report: /, '');
     expect(reports.map((f) => join(out(), f))).toContain(written);
     const html = readFileSync(written, 'utf8');
     const plots = readJsonScriptElement(html, 'railpulse-plots') as { id: string; data: { name: string; y: number[] }[] }[];
     const names = plots.flatMap((p) => p.data.map((d) => d.name));
-    for (const name of ['measured I', 'simulated I', 'residual I (model − measured)', 'measured V_breech', 'simulated V_breech', 'measured probe arrivals']) expect(names).toContain(name);
+    for (const name of ['measured I', 'model I', 'residual I (model − measured)', 'measured V_breech', 'model V_breech', 'measured probe arrivals']) expect(names).toContain(name);
+    // plotly draws later traces on top: the measurement comes after the model
+    const traces = plots.find((p) => p.id === 'plot-overlay-I')!.data.map((d) => d.name);
+    expect(traces.indexOf('measured I')).toBeGreaterThan(traces.indexOf('model I'));
+    expect(html).toMatch(/<title>[^<]*measured against model[^<]*<\/title>/);
     const measuredI = plots.find((p) => p.id === 'plot-overlay-I')!.data.find((d) => d.name === 'measured I')!;
     expect(measuredI.y.length).toBeGreaterThan(1000);
     const overlay = readJsonScriptElement(html, 'railpulse-overlay') as { signals: string[]; source: string };

@@ -2,10 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { readMeasurement, readPositionPoints } from '../../src/measure/csv.js';
 import { InputError } from '../../src/core/errors.js';
 
-const close = (a: number[] | undefined, b: number[]): void => {
+const close = (a: ArrayLike<number> | undefined, b: number[]): void => {
   expect(a).toBeDefined();
   expect(a!.length).toBe(b.length);
-  a!.forEach((x, i) => expect(x).toBeCloseTo(b[i]!, 12));
+  Array.from(a!).forEach((x, i) => expect(x).toBeCloseTo(b[i]!, 12));
 };
 
 /** The one line the CLI would print for this file, or '' when it reads. */

@@ -162,7 +162,7 @@ describe('goodnessOfFit', () => {
     const lowered: Measurement = { ...measured, signals: { I: measured.signals.I!.map((i) => i / 1.1) } };
     const g = goodnessOfFit(fakeRunShot(truth), lowered, { muzzleVelocity: 2 });
     expect(g.peakCurrent!.relativeError).toBeCloseTo(0.1, 3);
-    const signalRms = Math.sqrt(mean(lowered.signals.I!.map((i) => i * i)));
+    const signalRms = Math.sqrt(mean(Array.from(lowered.signals.I!, (i) => i * i)));
     expect(g.signals.I!.rms / signalRms).toBeCloseTo(0.1, 3);
     expect(g.muzzleVelocity!.measured).toBe(2);
     expect(g.exitTime).toBeUndefined();

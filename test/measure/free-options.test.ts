@@ -37,9 +37,11 @@ describe('fit options', () => {
     expect(problem(() => parseFree('friction.coefficient=0:0.5', frictionless))).toMatch(/no effect in this scenario: the contact normal force is zero/);
   });
 
-  it('weights are positive plain numbers for known signals; noise carries the signal’s unit', () => {
+  it('weights are plain numbers ≥ 0 for known signals; noise carries the signal’s unit', () => {
     expect(parseWeights(['V_breech=0.5', 'position=2'])).toEqual({ V_breech: 0.5, position: 2 });
-    expect(problem(() => parseWeights(['I=-1']))).toMatch(/positive number/);
+    expect(problem(() => parseWeights(['I=-1']))).toMatch(/expected a number ≥ 0/);
+    // 0 leaves a signal out of the fit rather than being an error
+    expect(parseWeights(['V_breech=0'])).toEqual({ V_breech: 0 });
     expect(parseNoise(['I=0.2kA', 'V_breech=50mV', 'position=2us', 'muzzleVelocity=3m/s'])).toEqual({ I: 200, V_breech: 0.05, arrivalTime: 2e-6, muzzleVelocity: 3 });
     expect(problem(() => parseNoise(['I=3V']))).toMatch(/^--noise: expected a current/);
   });
