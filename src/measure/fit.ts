@@ -25,7 +25,7 @@
  * Window: from the first measured sample (or `window.start`) to the model's end (or `window.end`). After a
  * stall or the end of a ring-down every current is below the floor and stays there, so the model is held at
  * its last values up to the record's end; after an exit or a timeout there is no model, and later samples are
- * not compared. The model's sample interval is lowered, if needed, to the record's median interval (but no
+ * not compared (and when only waveforms are fitted, each trial shot ends one interval after the record). The model's sample interval is lowered, if needed, to the record's median interval (but no
  * finer than 1/4000 of the record) so that interpolation adds no error worth mentioning.
  */
 import type { Scenario } from '../scenario/types.js';
@@ -165,7 +165,7 @@ export function fitScenario(options: FitOptions): FitResult {
     }
   });
 
-  const base = sampledLikeMeasurement(options.scenario, options.measurement);
+  const base = withinRecord(sampledLikeMeasurement(options.scenario, options.measurement), options);
   const scenarioAt = (q: number[]): Scenario => q.reduce((s, qi, i) => options.setPath(s, options.free[i]!.path, qi * scale[i]!), base);
   const signals = measuredSignals(options, warnings);
   const interval = options.measurement ? medianInterval(options.measurement.t) : NaN;
@@ -263,6 +263,19 @@ export function fitScenario(options: FitOptions): FitResult {
     scenario,
     shot,
   };
+}
+
+/**
+ * When only waveforms are fitted, the model past the record's end is never compared: end each trial shot
+ * one sample interval after the record (a slow armature can take far longer than the record to exit).
+ */
+function withinRecord(scenario: Scenario, options: FitOptions): Scenario {
+  const t = options.measurement?.t;
+  const needsWholeShot = (options.positions && options.positions.x.length > 0 && (options.weights?.position ?? 1) > 0) || (options.muzzleVelocity !== undefined && (options.weights?.muzzleVelocity ?? 1) > 0);
+  if (!t || t.length < 2 || needsWholeShot) return scenario;
+  const end = t[t.length - 1]! + medianInterval(t);
+  if (!(end > 0) || end >= scenario.solver.endTime) return scenario;
+  return { ...scenario, solver: { ...scenario.solver, endTime: end } };
 }
 
 interface MeasuredSignal {

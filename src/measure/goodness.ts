@@ -88,7 +88,7 @@ export function goodnessOfFit(shot: Shot, measurement: Measurement | undefined, 
     }
     const current = measurement.signals.I;
     if (current) {
-      const peak = locatePeak(t, current);
+      const peak = locatePeak(t, current, instants);
       result.peakCurrent = compare(shot.results.peakCurrent, peak.value);
       result.peakCurrentTime = compare(shot.results.peakCurrentTime, peak.time);
     }

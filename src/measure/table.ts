@@ -160,17 +160,44 @@ export function openTable(reader: LineReader, source: string): TableStream {
     dataLines++;
   }
   let headIndex = headerIndex + 1;
-  const nextLine = (): { text: string; line: number } | null => {
+  /** the 1-based line of the text nextText() returned last */
+  let lineNumber = 0;
+  const nextText = (): string | null => {
     if (headIndex < head.length) {
       const text = head[headIndex]!;
       headIndex++;
-      return { text, line: headIndex };
+      lineNumber = headIndex;
+      return text;
     }
     const text = reader.next();
-    return text === null ? null : { text, line: reader.line };
+    lineNumber = reader.line;
+    return text;
   };
   const count = columns.length;
+  const numberPattern = decimalComma ? COMMA_NUMBER : NUMBER;
+  /**
+   * The common row, read without building an array of cells: no quotes, `count` numeric cells (a trailing
+   * separator allowed). Returns false for anything else, which the careful path below reads or reports.
+   */
+  const quickRow = (text: string, into: Float64Array): boolean => {
+    if (text.includes('"')) return false;
+    let start = 0;
+    for (let c = 0; c < count; c++) {
+      let end = text.indexOf(separator, start);
+      if (end < 0) end = text.length;
+      else if (c === count - 1 && end !== text.length - 1) return false;
+      let cell = text.slice(start, end);
+      if (cell.charCodeAt(0) <= 32 || cell.charCodeAt(cell.length - 1) <= 32) cell = cell.trim();
+      if (!numberPattern.test(cell)) return false;
+      const value = Number(decimalComma ? cell.replace(',', '.') : cell);
+      if (!Number.isFinite(value)) return false;
+      into[c] = value;
+      start = end + 1;
+    }
+    return start >= text.length;
+  };
   const parseRow = (text: string, line: number, into: Float64Array): void => {
+    if (quickRow(text, into)) return;
     const where = `${source}:${line}`;
     const cells = withoutTrailingEmpty(splitCells(text, separator));
     if (cells.length !== count) {
@@ -198,15 +225,15 @@ export function openTable(reader: LineReader, source: string): TableStream {
     size: reader.size,
     close: () => reader.close(),
     nextRow(into: Float64Array): number {
-      for (let next = nextLine(); next !== null; next = nextLine()) {
-        if (next.text.trim() === '') continue;
+      for (let text = nextText(); text !== null; text = nextText()) {
+        if (text.length === 0 || text.trim() === '') continue;
         try {
-          parseRow(next.text, next.line, into);
+          parseRow(text, lineNumber, into);
         } catch (error) {
           reader.close();
           throw error;
         }
-        return next.line;
+        return lineNumber;
       }
       return 0;
     },
