@@ -7,6 +7,8 @@ import type { ShotResults } from '../solve/types.js';
 import { engineeringChecks, type Check } from './engineering.js';
 
 export function shotChecks(scenario: Scenario, results: ShotResults): Check[] {
+  // a ring-down into a short has no rails or armature to judge: only the bank's checks apply
+  if (scenario.load) return engineeringChecks({ results, bank: scenario.bank, ...(scenario.limits ? { limits: scenario.limits } : {}) }).filter((c) => c.id !== 'peak-acceleration');
   const solid = scenario.armature.arcDrop === 0;
   return engineeringChecks({
     results,

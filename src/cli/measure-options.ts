@@ -112,6 +112,12 @@ export function readMeasuredInputs(file: string, flags: MeasureFlags, scenario: 
   const offset = offsetsInColumnUnits(file, pairs('--offset', flags.offset, 'HEADER=VALUE, e.g. --offset t=2us'), units, map);
   const options: MeasurementOptions = { source: file, map, units, scale, offset };
   const measurement = readMeasurementFile(file, options);
+  if (scenario.load) {
+    if (measurement.signals.V_muzzle) throw new InputError(file, 'has a V_muzzle column, but the scenario fires into a shorted load (a ring-down) and has no muzzle; map the column to ignore (--map HEADER=ignore)');
+    for (const [option, given] of [['--positions', flags.positions], ['--muzzle-velocity', flags.muzzleVelocity], ['--exit-time', flags.exitTime]] as const) {
+      if (given !== undefined) throw new InputError(option, 'is a launch measurement, but the scenario fires into a shorted load (a ring-down): there is no armature');
+    }
+  }
   const railLength = scenario.rails.length;
   const positions = flags.positions ? readPositionPoints(readText(flags.positions, '--positions'), { source: flags.positions }) : undefined;
   const muzzleVelocity = flags.muzzleVelocity === undefined ? undefined : quantityOption('--muzzle-velocity', flags.muzzleVelocity, DIMENSIONS.velocity);
@@ -138,6 +144,10 @@ export function parseFree(text: string, scenario: Scenario): FreeParameter {
   const dimension = dimensionOfPath(path);
   const pattern = path.replace(/\[\d+\]/g, '[n]');
   if (path.startsWith('solver.')) throw new InputError('--free', `${path} is a solver setting, not a model parameter`);
+  if (scenario.load && /^(rails|armature|friction|drag)\./.test(path)) {
+    throw new InputError('--free', `${path} is a launch parameter, but the scenario fires into a shorted load (a ring-down); fit bank[n].inductance, bank[n].resistance, bank[n].esr, feed.inductance, feed.resistance or load.inductance, load.resistance`);
+  }
+  if (!scenario.load && path.startsWith('load.')) throw new InputError('--free', `${path} belongs to a ring-down into a shorted load, and this scenario is a launch (it has no load section)`);
   if (!dimension || !fittablePaths().includes(pattern)) {
     if (fieldAt(path)?.kind === 'integer') throw new InputError('--free', `${path} is a whole number; a fit varies continuous quantities only`);
     if (pattern.endsWith('ratedReversal')) throw new InputError('--free', `${path} is a rating for the checks and does not change the shot, so it cannot be fitted`);

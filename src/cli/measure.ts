@@ -6,8 +6,10 @@ import { basename, dirname, extname } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { Command } from 'commander';
 import { calibratedScenarioRaw } from '../measure/calibrated.js';
+import { carriedValues, type FittedValue } from '../measure/carry.js';
+import { InputError } from '../core/errors.js';
 import { fitScenario, type FitResult } from '../measure/fit.js';
-import { goodnessOfFit, type GoodnessOfFit } from '../measure/goodness.js';
+import { goodnessOfFit, requireComparedSamples, type GoodnessOfFit } from '../measure/goodness.js';
 import { sampledLikeMeasurement } from '../measure/sampling.js';
 import { setScenarioPath } from '../scenario/paths.js';
 import { reportDate } from '../output/provenance.js';
@@ -17,7 +19,7 @@ import { inFile, shoot, type AssessedShot } from '../pipeline/shoot.js';
 import { formatQuantity } from '../report/format.js';
 import { siUnitOfPath } from '../report/inputs.js';
 import type { OverlayFit, OverlayInput } from '../report/overlay.js';
-import { loadScenarioFile, loadScenarioText } from '../scenario/load.js';
+import { loadScenarioFile, loadScenarioText, type LoadedScenario } from '../scenario/load.js';
 import type { Scenario } from '../scenario/types.js';
 import { runShot } from '../solve/shot.js';
 import type { Shot } from '../solve/types.js';
@@ -40,6 +42,8 @@ interface FitFlags extends OverlayFlags {
   free?: string[];
   weight?: string[];
   noise?: string[];
+  carryInto?: string;
+  carryToAllGroups?: boolean;
 }
 
 /** JSON with NaN and ±∞ as null (an uncertainty on a bound is not a number). */
@@ -88,6 +92,7 @@ function goodnessLines(goodness: GoodnessOfFit): string[] {
   if (rule && rule.excluded.length > 0) {
     lines.push(`  not compared: ${rule.excluded.length} sample(s) within one sample interval (${formatQuantity(rule.interval, 's')}) of a switching instant of the model${timesList(rule.excluded)}`);
   }
+  if (rule && rule.outside > 0) lines.push(`  not compared: ${rule.outside} sample(s) outside the model's span`);
   return lines;
 }
 
@@ -102,6 +107,7 @@ export function overlayCommand(file: string, csv: string, flags: OverlayFlags): 
   const inputs = readMeasuredInputs(csv, flags, loaded.scenario);
   const assessed: AssessedShot = shoot(loaded, { scenario: sampledLikeMeasurement(loaded.scenario, inputs.measurement) });
   const goodness = compare(assessed.shot, inputs);
+  requireComparedSamples(goodness, inputs.measurement);
   const written = flags.report === false ? null : recordShot(assessed, reportTarget(flags), overlayInput(inputs, goodness, flags));
   const reportLine = written ? [`report: ${written}`] : [];
   if (flags.json) {
@@ -182,6 +188,10 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
   const weights = parseWeights(flags.weight);
   const noise = parseNoise(flags.noise);
   const inputs = readMeasuredInputs(csv, flags, loaded.scenario);
+  if (flags.carryToAllGroups && !flags.carryInto) throw new InputError('--carry-to-all-groups', 'needs --carry-into FILE');
+  // the scenario the calibration carries into is read (and the paths checked) before the fit runs
+  const carryTarget = flags.carryInto ? loadScenarioFile(flags.carryInto) : null;
+  if (carryTarget) carriedValues(Object.fromEntries(free.map((f) => [f.path, { value: NaN, uncertainty: NaN }])), carryTarget.scenario, flags.carryInto!, flags.carryToAllGroups === true);
   const started = performance.now();
   const fit = inFile(file, () =>
     fitScenario({
@@ -208,6 +218,9 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
   const scenarioPath = writeNewFile(dirname(file), `${base}.calibrated`, '.json', text);
   const loadedCalibrated = { ...calibrated, file: scenarioPath };
 
+  const carriedPath = carryTarget ? carryInto(carryTarget, fitted, { ring: file, csv, date, allGroups: flags.carryToAllGroups === true }) : null;
+  const carriedLine = carriedPath ? [`carried into: ${carriedPath} (${basename(flags.carryInto!)} with the fitted values, less the short's own)`] : [];
+
   const assessed = shoot(loadedCalibrated, { scenario: sampledLikeMeasurement(calibrated.scenario, inputs.measurement) });
   const goodness = compare(assessed.shot, inputs);
   const reportPath = flags.report === false ? null : recordShot(assessed, reportTarget(flags), overlayInput(inputs, goodness, flags, overlayFit(fit)));
@@ -217,12 +230,24 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
     const parameters = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty, initial: p.initial }]));
     process.stdout.write(toJson({ parameters, correlations: fit.correlations, residual: fit.residual, samples: fit.samples }));
     const warnings = fit.warnings.map((w) => `warning: ${w}\n`).join('');
-    process.stderr.write([`fit: ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s`, ...warnings.split('\n').filter(Boolean), `calibrated scenario: ${scenarioPath}`, ...reportLine, CAUTION].join('\n') + '\n');
+    process.stderr.write([`fit: ${fit.iterations} iterations, ${fit.shots} shots, ${seconds.toFixed(2)} s`, ...warnings.split('\n').filter(Boolean), `calibrated scenario: ${scenarioPath}`, ...carriedLine, ...reportLine, CAUTION].join('\n') + '\n');
   } else {
-    const lines = [`fit of ${file} to ${csv}:`, ...fitLines(fit, seconds), 'calibrated shot against the measurement:', ...goodnessLines(goodness), `calibrated scenario: ${scenarioPath}`, ...reportLine, CAUTION];
+    const lines = [`fit of ${file} to ${csv}:`, ...fitLines(fit, seconds), 'calibrated shot against the measurement:', ...goodnessLines(goodness), `calibrated scenario: ${scenarioPath}`, ...carriedLine, ...reportLine, CAUTION];
     process.stdout.write(lines.join('\n') + '\n');
   }
   return fit;
+}
+
+/**
+ * Write the fitted values (less the short's own) into a copy of another scenario of the same bank, beside it
+ * and never over a file: `<name>.calibrated.json`, loaded once before it is written.
+ */
+function carryInto(target: LoadedScenario, fitted: Record<string, FittedValue>, from: { ring: string; csv: string; date: string; allGroups: boolean }): string {
+  const values = carriedValues(fitted, target.scenario, target.file, from.allGroups);
+  const raw = calibratedScenarioRaw(target.raw, { scenarioFile: basename(target.file), measurementFile: `${basename(from.csv)} (fitted on ${basename(from.ring)})`, date: from.date, fitted: values });
+  const text = `${JSON.stringify(raw, null, 2)}\n`;
+  loadScenarioText(text, `${target.file} with the carried values`);
+  return writeNewFile(dirname(target.file), `${basename(target.file, extname(target.file))}.calibrated`, '.json', text);
 }
 
 function measureOptions(command: Command): Command {
@@ -258,7 +283,9 @@ export function registerMeasureCommands(program: Command): void {
       .argument('<measured>', 'oscilloscope / DAQ export (CSV)')
       .option('--free <PATH[=lo:hi]>', 'a parameter to fit, with optional bounds in units, e.g. rails.inductanceGradient=0.3uH/m:0.6uH/m (repeatable)', collect)
       .option('--weight <SIGNAL=W>', 'weight of I, V_breech, V_muzzle, position or muzzleVelocity (default 1; 0 leaves it out; repeatable)', collect)
-      .option('--noise <SIGNAL=VALUE>', 'noise σ of a signal with its unit, e.g. I=200A (default: estimated from the record; repeatable)', collect),
+      .option('--noise <SIGNAL=VALUE>', 'noise σ of a signal with its unit, e.g. I=200A (default: estimated from the record; repeatable)', collect)
+      .option('--carry-into <scenario>', 'also write the fitted bank and feed values into a copy of this scenario (e.g. a ring-down into the launch): <name>.calibrated.json beside it')
+      .option('--carry-to-all-groups', 'with --carry-into: a value fitted for one group goes to that quantity of every group (groups of the same module)'),
   ).action((file: string, csv: string, flags: FitFlags) => {
     fitCommand(file, csv, flags);
   });

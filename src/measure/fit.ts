@@ -320,10 +320,11 @@ function planFor(options: FitOptions, shot: Shot, interval: number): PointPlan {
   const instants = options.switchingRule === false ? [] : switchingInstants(shot);
   const plan = planPoints(t, window, instants, Number.isFinite(interval) ? interval : 0, options.maxPointsPerSignal ?? DEFAULT_MAX_POINTS);
   if (usableSamples(plan) === 0) {
-    const span = `${fmt(window.start)} s to ${fmt(window.end)} s`;
+    const us = (x: number): string => `${Number((x * 1e6).toPrecision(6))} µs`;
+    const span = `${us(window.start)} to ${Number.isFinite(window.end) ? us(window.end) : 'the record\'s end'}`;
     throw new InputError(
       '',
-      `no usable samples: of ${t.length} samples, ${plan.to - plan.from} lie in the compared span (${span}) and ${rangesSize(plan.excluded)} of those are closer than one sample interval (${fmt(interval)} s) to a switching instant of the model; record the shot itself, or check the time offset`,
+      `no usable samples: of ${t.length} samples, ${plan.to - plan.from} lie in the compared span (${span}) and ${rangesSize(plan.excluded)} of those are closer than one sample interval to a switching instant of the model (Δt = ${us(interval)}); compare a record of the shot itself, or check its time offset (--offset t=…)`,
       measurement.source,
     );
   }

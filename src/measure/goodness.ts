@@ -13,6 +13,7 @@
  * shot's results.
  */
 import type { Shot } from '../solve/types.js';
+import { InputError } from '../core/errors.js';
 import { interpolationCursor } from '../core/interpolate.js';
 import { SIGNAL_NAMES, type Measurement, type PositionPoints, type SampleArray, type SignalName } from './csv.js';
 import { lowerBound, rangeCursor, samplesNearInstants, switchingInstants, upperBound, type IndexRanges } from './switching.js';
@@ -115,6 +116,14 @@ function signalAgreement(t: SampleArray, series: SampleArray, from: number, to: 
   const peak = largestMagnitude(series, from, to);
   const rms = Math.sqrt(squares / points);
   return { rms, relativeRms: peak > 0 ? rms / peak : NaN, points };
+}
+
+/** A record none of whose samples could be compared is bad input (a wrong time base, a record of another shot). */
+export function requireComparedSamples(goodness: GoodnessOfFit, measurement: Measurement): void {
+  if (Object.keys(goodness.signals).length > 0 || Object.keys(measurement.signals).length === 0) return;
+  const rule = goodness.samples;
+  const detail = rule ? `${rule.outside} of ${measurement.t.length} lie outside the model's span and ${rule.excluded.length} within one sample interval of a switching instant` : 'the model has no waveforms';
+  throw new InputError('', `no usable samples: ${detail}; compare a record of the shot itself, or check its time offset (--offset t=…)`, measurement.source);
 }
 
 function compare(model: number, measured: number): Comparison {

@@ -49,8 +49,24 @@ export function signalGroup(name: SignalName, points: SignalPoints, weight: numb
     noise: points.noise,
     weight,
     samples: points.count,
-    model: (shot) => interpolateSorted(waveformsOf(shot).t, waveformsOf(shot)[key], points.time),
+    model: (shot) => waveformAt(shot, key, points.time),
   };
+}
+
+/**
+ * The model's waveform at the comparison times. Past the end of a shot that stalled or ended its ring-down,
+ * every current is below the floor and not rising (model contract §3): the signals are taken as zero there
+ * (not as the last sample, which can hold the steep slope of a current about to reach zero).
+ */
+function waveformAt(shot: Shot, key: 'current' | 'breechVoltage' | 'muzzleVoltage', times: ArrayLike<number>): number[] {
+  const w = waveformsOf(shot);
+  const values = interpolateSorted(w.t, w[key], times);
+  const outcome = shot.results.outcome as string;
+  if (outcome === 'stalled' || outcome === 'discharged') {
+    const end = w.t[w.t.length - 1]!;
+    for (let j = values.length - 1; j >= 0 && times[j]! > end; j--) values[j] = 0;
+  }
+  return values;
 }
 
 export function positionGroup(positions: PositionPoints, arrivalTimeNoise: number, weight: number): Group {

@@ -19,7 +19,8 @@
  *
  * The armature's start and stop are not switching instants for the measured signals: the velocity, and so
  * the current and both voltages, are continuous there. The model's end at a stall or at the end of a
- * ring-down is not one either: nothing jumps.
+ * ring-down is one: the model stops where its currents cross the floor (a hair before a switch opens, or at
+ * the switch opening, as the step falls), and is zero after it.
  */
 import type { Shot } from '../solve/types.js';
 import type { SampleArray } from './csv.js';
@@ -31,7 +32,7 @@ import type { SampleArray } from './csv.js';
  */
 export const HUBER_THRESHOLD = 3;
 
-const CONTINUOUS_EVENTS = new Set<string>(['start', 'stop', 'stall', 'timeout', 'discharged']);
+const CONTINUOUS_EVENTS = new Set<string>(['start', 'stop', 'timeout']);
 
 /** Times of the model's switching instants, increasing, each once. */
 export function switchingInstants(shot: Shot): number[] {

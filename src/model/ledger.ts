@@ -81,7 +81,7 @@ export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLik
     moduleMagnetic += 0.5 * plant.inductance[g]! * i * i;
     current += i;
   }
-  const loopInductance = plant.feedInductance + plant.inductanceGradient * y[ix.position]!;
+  const loopInductance = plant.feedInductance + plant.loadInductance + plant.inductanceGradient * y[ix.position]!;
   const magneticRails = 0.5 * loopInductance * current * current;
   const velocity = y[ix.velocity]!;
   const kinetic = 0.5 * plant.mass * velocity * velocity;

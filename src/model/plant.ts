@@ -46,6 +46,10 @@ export interface Plant {
   floor: number[];
   feedInductance: number;
   feedResistance: number;
+  /** a ring-down: the bank fires into a short at the breech (no rails, no armature motion) */
+  shorted: boolean;
+  /** the short's own inductance (0 for a launch); in series with the feed, beyond the breech */
+  loadInductance: number;
   railLength: number;
   inductanceGradient: number;
   resistanceGradient: number;
@@ -92,7 +96,20 @@ export function makePlant(scenario: Scenario): Plant {
   const bank = scenario.bank;
   const n = bank.map((g) => g.count);
   const drag = scenario.drag;
+  const load = scenario.load ?? null;
+  if (load) {
+    // the short stands where rails and armature would be: its resistance takes the armature's place in the
+    // loop (and its loss the armature's ledger entry); L′ = 0, so no force and the "armature" never starts.
+    // Length and mass are unit placeholders for the tolerance scales; nothing else reads them.
+    return {
+      ...makePlant({ ...scenario, load: undefined, drag: null, rails: { length: 1, inductanceGradient: 0, resistanceGradient: 0 }, armature: { mass: 1, position: 0, resistance: load.resistance, contactResistance: 0, arcDrop: 0 }, friction: { coefficient: 0, staticCoefficient: 0, preload: 0, magneticLoading: 0 } }),
+      shorted: true,
+      loadInductance: load.inductance,
+    };
+  }
   return {
+    shorted: false,
+    loadInductance: 0,
     groups: bank.length,
     count: n,
     capacitance: bank.map((g) => g.capacitance * g.count),
@@ -202,7 +219,7 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   const groups = plant.groups;
   const x = y[2 * groups]!;
   const v = mode.moving ? y[2 * groups + 1]! : 0;
-  const loopInductance = plant.feedInductance + plant.inductanceGradient * x;
+  const loopInductance = plant.feedInductance + plant.loadInductance + plant.inductanceGradient * x;
   const loopResistance =
     plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
   let conductance = 0;

@@ -18,26 +18,32 @@ export function shotSummary(scenario: Scenario, shot: Shot, warnings: ShotWarnin
   const e = r.energy;
   const lines: string[] = [];
   const row = (label: string, value: string) => lines.push(`  ${label.padEnd(26)} ${value}`);
-  lines.push(`${scenario.name} — ${r.outcome === 'exited' ? 'armature exits the muzzle' : r.outcome === 'stalled' ? 'armature STALLED in the bore' : 'TIMED OUT'}`);
-  row('muzzle velocity', r.outcome === 'exited' ? formatSI(r.muzzleVelocity, 'm/s') : `${formatSI(r.muzzleVelocity, 'm/s')} (final; did not exit)`);
-  row('exit time', r.exitTime === null ? '—' : formatSI(r.exitTime, 's'));
-  row('final position', formatSI(r.finalPosition, 'm'));
+  const headline = { exited: 'armature exits the muzzle', stalled: 'armature STALLED in the bore', timeout: 'TIMED OUT', discharged: 'bank discharged into the short (ring-down)' };
+  lines.push(`${scenario.name} — ${headline[r.outcome]}`);
+  if (!scenario.load) {
+    row('muzzle velocity', r.outcome === 'exited' ? formatSI(r.muzzleVelocity, 'm/s') : `${formatSI(r.muzzleVelocity, 'm/s')} (final; did not exit)`);
+    row('exit time', r.exitTime === null ? '—' : formatSI(r.exitTime, 's'));
+    row('final position', formatSI(r.finalPosition, 'm'));
+  }
   row('peak current', `${formatSI(r.peakCurrent, 'A')} at ${formatSI(r.peakCurrentTime, 's')}`);
-  row('peak acceleration', `${formatSI(r.peakAcceleration, 'm/s²')} (${(r.peakAcceleration / STANDARD_GRAVITY).toPrecision(3)} g)`);
-  row('peak breech voltage', formatSI(r.peakBreechVoltage, 'V'));
+  if (!scenario.load) row('peak acceleration', `${formatSI(r.peakAcceleration, 'm/s²')} (${(r.peakAcceleration / STANDARD_GRAVITY).toPrecision(3)} g)`);
+  row(scenario.load ? 'peak voltage across short' : 'peak breech voltage', formatSI(r.peakBreechVoltage, 'V'));
   row('action integral', `${r.actionIntegral.toPrecision(3)} A²s`);
-  row('efficiency', formatPercent(r.efficiency));
+  if (!scenario.load) row('efficiency', formatPercent(r.efficiency));
   for (const m of r.modules) {
     row(`module ${m.label}`, `peak ${formatSI(m.peakCurrent, 'A')} per module, reversal ${formatPercent(m.reversal)}`);
   }
   lines.push('  energy at the end of the in-bore phase:');
   const share = (value: number) => `${formatSI(value, 'J').padStart(10)}  ${formatPercent(value / e.initial).padStart(8)}`;
   row('  stored (E0)', share(e.initial));
-  row('  kinetic', share(e.kinetic));
+  if (!scenario.load) row('  kinetic', share(e.kinetic));
   row('  left in capacitors', share(e.capacitors));
-  row('  magnetic (feed + rails)', `${share(e.magneticRails)}  (the muzzle arc must absorb this)`);
-  row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails)}  (shared by the arc and module resistances)`);
-  for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${key}`, share(e.losses[key]));
+  if (!scenario.load) {
+    row('  magnetic (feed + rails)', `${share(e.magneticRails)}  (the muzzle arc must absorb this)`);
+    row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails)}  (shared by the arc and module resistances)`);
+  }
+  // in a ring-down the short stands in the armature's place, and so does its loss
+  for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${scenario.load && key === 'armature' ? 'short (load)' : key}`, share(e.losses[key]));
   row('  ledger residual', `${(e.residual / e.initial).toExponential(2)} of E0`);
   const derived = scenario.rails.derived;
   if (derived) {

@@ -48,6 +48,7 @@ const OUTCOME_TEXT: Record<ShotResults['outcome'], string> = {
   exited: 'left the muzzle',
   stalled: 'stalled in the bore',
   timeout: 'end time reached in the bore',
+  discharged: 'bank discharged into the short (ring-down)',
 };
 
 interface KeyFigure {

@@ -73,6 +73,11 @@ export function deriveFromGeometry(scenario: Scenario, read: Read, raw: Read, fi
 }
 
 function derive(scenario: Scenario, read: Read, raw: Read): void {
+  if (scenario.load) {
+    // a ring-down has no rails or armature to derive; its limits are the bank's
+    if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
+    return;
+  }
   const materials = userMaterials(read);
   const rails = section(read, 'rails');
   const armature = section(read, 'armature');

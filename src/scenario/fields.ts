@@ -93,10 +93,19 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       resistance: q(D.resistance, 'feed resistance R_f', { default: 0 }),
     },
   },
+  load: {
+    kind: 'section',
+    optional: true,
+    description: 'a shorted load in place of rails and armature (a ring-down of the bank); absent = a launch. With a load, rails, armature, friction, drag and target are not given',
+    fields: {
+      kind: { kind: 'text', required: true, description: '"short": the bank fired into a short at the breech' },
+      inductance: q(D.inductance, "the short's own inductance (shorting bar or dummy load); the feed keeps its own", { default: 0 }),
+      resistance: q(D.resistance, "the short's own resistance", { default: 0 }),
+    },
+  },
   rails: {
     kind: 'section',
-    required: true,
-    description: 'the two rails',
+    description: 'the two rails (required unless load is given)',
     fields: {
       length: q(D.length, 'rail length from the breech to the muzzle', { required: true }),
       inductanceGradient: q(D.inductanceGradient, "inductance gradient L' (required unless rails.geometry is given)"),
@@ -119,8 +128,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
   },
   armature: {
     kind: 'section',
-    required: true,
-    description: 'the sliding armature',
+    description: 'the sliding armature (required unless load is given)',
     fields: {
       mass: q(D.mass, 'armature (and payload) mass (required unless geometry and material give it)'),
       position: q(D.length, 'initial distance from the breech', { default: 0 }),

@@ -64,11 +64,39 @@ export function parseJson(source: string, file: string): Record<string, unknown>
 
 /** Read a parsed scenario object: units → SI, defaults, dimension and range checks. */
 export function scenarioFromRaw(raw: Record<string, unknown>, file?: string): Scenario {
+  checkLoadKeys(raw, file);
   const read = readSection(raw, { kind: 'section', fields: SCENARIO_FIELDS, description: '' }, '', file) as Record<string, unknown>;
   const scenario = normalise(read);
   deriveFromGeometry(scenario, read, raw, file);
   validateScenario(scenario, file);
   return scenario;
+}
+
+/** Keys that describe a launch: with a shorted load (a ring-down) there is no bore, armature or target. */
+export const LAUNCH_ONLY_KEYS = ['rails', 'armature', 'friction', 'drag', 'target'] as const;
+/** Check thresholds about rails, armature and payload: they have nothing to judge in a ring-down. */
+export const LAUNCH_ONLY_LIMITS = ['actionWarnFraction', 'railHeatingWarnFraction', 'linearCurrentDensityWarn', 'linearCurrentDensityFail', 'contactForcePerAmpere', 'railSeparatingForcePerLength', 'peakAcceleration'] as const;
+
+/** A launch needs rails and an armature; a shorted load (ring-down) must not be given launch-only keys. */
+function checkLoadKeys(raw: Record<string, unknown>, file?: string): void {
+  const load = raw.load;
+  if (load === undefined || load === null) {
+    for (const key of ['rails', 'armature'] as const) {
+      if (raw[key] === undefined) {
+        throw new InputError(key, `missing required key (${(SCENARIO_FIELDS[key] as SectionField).description.replace(' (required unless load is given)', '')}; or give load for a ring-down into a short)`, file);
+      }
+    }
+    return;
+  }
+  if (typeof load !== 'object' || Array.isArray(load)) return; // readSection reports the shape
+  const kind = (load as Record<string, unknown>).kind;
+  if (kind !== undefined && kind !== 'short') throw new InputError('load.kind', `expected "short" (the bank fired into a short at the breech), got ${describe(kind)}`, file);
+  const why = 'is a launch-only key: this scenario fires the bank into a shorted load (load.kind "short"), which has no rails, armature, friction, drag or target; remove it, or remove load for a launch';
+  for (const key of LAUNCH_ONLY_KEYS) if (raw[key] !== undefined) throw new InputError(key, why, file);
+  const limits = raw.limits;
+  if (typeof limits === 'object' && limits !== null) {
+    for (const key of LAUNCH_ONLY_LIMITS) if (key in limits) throw new InputError(`limits.${key}`, why.replace('key', 'limit'), file);
+  }
 }
 
 function describe(value: unknown): string {
@@ -160,6 +188,22 @@ function normalise(read: Record<string, unknown>): Scenario {
     );
   };
   const drag = (read.drag as Record<string, number> | null | undefined) ?? null;
+  const load = read.load as { kind: 'short'; inductance: number; resistance: number } | null | undefined;
+  if (load) {
+    // a ring-down: no bore, no armature; the launch sections hold zeros that nothing reads
+    return {
+      name: read.name as string,
+      description: (read.description as string | undefined) ?? '',
+      bank,
+      feed: read.feed as unknown as Scenario['feed'],
+      rails: { length: 0, inductanceGradient: 0, resistanceGradient: 0 },
+      armature: { mass: 0, position: 0, resistance: 0, contactResistance: 0, arcDrop: 0 },
+      friction: { coefficient: 0, staticCoefficient: 0, preload: 0, magneticLoading: 0 },
+      drag: null,
+      load: { kind: 'short', inductance: load.inductance, resistance: load.resistance },
+      solver: { ...sectionDefaults('solver'), ...(solver ?? {}) } as unknown as Scenario['solver'],
+    };
+  }
   return {
     name: read.name as string,
     description: (read.description as string | undefined) ?? '',

@@ -44,5 +44,9 @@ export function scenarioSchema(): Schema {
     $id: 'railpulse.schema.json',
     title: 'railpulse scenario',
     ...root,
+    // a launch needs rails and an armature; a ring-down into a shorted load has none of the launch keys
+    if: { required: ['load'], properties: { load: { type: 'object' } } },
+    then: { not: { anyOf: ['rails', 'armature', 'friction', 'drag', 'target'].map((key) => ({ required: [key] })) } },
+    else: { required: ['rails', 'armature'] },
   };
 }

@@ -37,6 +37,20 @@ export interface ModuleGroup {
   ratedReversal?: number;
 }
 
+/**
+ * A shorted load in place of rails and armature: the bank fired into a short at the breech, as labs do to
+ * characterise a bank by its ring-down. `inductance` and `resistance` are the short's own (a shorting bar,
+ * a dummy load); the feed keeps its own values, so a ring-down's fitted feed and module values carry into a
+ * launch scenario of the same bank.
+ */
+export interface ShortedLoad {
+  kind: 'short';
+  /** the short's own inductance (H), ≥ 0 */
+  inductance: number;
+  /** the short's own resistance (ohm), ≥ 0 */
+  resistance: number;
+}
+
 export interface Feed {
   inductance: number;
   resistance: number;
@@ -103,6 +117,11 @@ export interface Scenario {
   armature: Armature;
   friction: Friction;
   drag: Drag | null;
+  /**
+   * A shorted load (ring-down) instead of rails and armature; absent for a launch. With a short, `rails`,
+   * `armature` and `friction` hold zeros and are not used (the file may not give them).
+   */
+  load?: ShortedLoad;
   solver: SolverOptions;
   /** engineering-check thresholds given by the scenario (the rest are defaults) */
   limits?: Partial<EngineeringLimits>;

@@ -7,7 +7,7 @@ import type { Plant } from '../model/plant.js';
 export function timeScale(plant: Plant): number {
   let scale = Infinity;
   for (let g = 0; g < plant.groups; g++) {
-    const quarter = (Math.PI / 2) * Math.sqrt((plant.inductance[g]! + plant.feedInductance) * plant.capacitance[g]!);
+    const quarter = (Math.PI / 2) * Math.sqrt((plant.inductance[g]! + plant.feedInductance + plant.loadInductance) * plant.capacitance[g]!);
     scale = Math.min(scale, quarter);
   }
   return scale;
@@ -23,7 +23,7 @@ export function fastestDecay(plant: Plant): number {
   let fastest = Infinity;
   for (let g = 0; g < plant.groups; g++) {
     const resistance = Math.max(plant.esr[g]!, plant.diodeResistance[g]!) + plant.seriesResistance[g]! + external;
-    const inductance = plant.inductance[g]! + plant.feedInductance;
+    const inductance = plant.inductance[g]! + plant.feedInductance + plant.loadInductance;
     if (resistance > 0) fastest = Math.min(fastest, inductance / resistance);
   }
   return fastest;

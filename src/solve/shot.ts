@@ -121,7 +121,9 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   instant();
   settle(plant, t, y, mode, log);
   instant();
-  let outcome: Outcome | null = isStalled(plant, y, mode) ? 'stalled' : null;
+  // a ring-down ends where a launch would stall: nothing moves, nothing pending, every current below the floor
+  const settled: Outcome = plant.shorted ? 'discharged' : 'stalled';
+  let outcome: Outcome | null = isStalled(plant, y, mode) ? settled : null;
 
   /** events that fired at the current instant: not to fire again at the restart point */
   let justFired = new Set<string>();
@@ -341,9 +343,10 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     }
     settle(plant, t, y, mode, log);
     instant();
-    if (isStalled(plant, y, mode)) outcome = 'stalled';
+    if (isStalled(plant, y, mode)) outcome = settled;
   }
   if (outcome === 'stalled') events.push({ t, kind: 'stall' });
+  if (outcome === 'discharged') events.push({ t, kind: 'discharged' });
   if (outcome === 'timeout') events.push({ t, kind: 'timeout' });
   return finish(plant, scenario, y, q, t, outcome, tracker.peaks, recorder?.waveforms ?? null, events, {
     steps,

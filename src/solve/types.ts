@@ -3,7 +3,8 @@
  * (model contract §5); everything is SI.
  */
 
-export type Outcome = 'exited' | 'stalled' | 'timeout';
+/** `discharged`: a ring-down into a shorted load ended, every module off or below the current floor. */
+export type Outcome = 'exited' | 'stalled' | 'timeout' | 'discharged';
 
 export const LOSS_KEYS = [
   'bank',
@@ -64,6 +65,7 @@ export type EventKind =
   | 'stop'
   | 'exit'
   | 'stall'
+  | 'discharged'
   | 'timeout';
 
 export interface ShotEvent {

@@ -1,5 +1,9 @@
-import { describe, expect, it } from 'vitest';
-import { readMeasurement, readPositionPoints } from '../../src/measure/csv.js';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { readMeasurement, readMeasurementFile, readPositionPoints } from '../../src/measure/csv.js';
+import { MAX_LINE_CHARACTERS } from '../../src/measure/lines.js';
 import { InputError } from '../../src/core/errors.js';
 
 const close = (a: ArrayLike<number> | undefined, b: number[]): void => {
@@ -114,5 +118,40 @@ describe('readPositionPoints: probe arrival times', () => {
 
   it('rejects a file without both columns', () => {
     expect(() => readPositionPoints('x [m],v [m/s]\n0.1,100\n', { source: 'probes.csv' })).toThrow(/probes\.csv:1: expected columns "x \[m\]" and "t \[us\]"/);
+  });
+});
+
+describe('readMeasurementFile: the same reading, streamed a chunk at a time', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'railpulse-csv-'));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('a CRLF file of 80,000 rows (several 1 MiB chunks, line ends split between chunks) reads as the same text does', () => {
+    const rows = Array.from({ length: 80_000 }, (_, k) => `${(k * 0.5).toFixed(1).replace('.', ',')};${(Math.sin(k / 900) * 12.5).toFixed(6).replace('.', ',')}`);
+    const text = ['\uFEFFGerät;Beispiel', 't [µs];I [kA]', ...rows].join('\r\n') + '\r\n';
+    const path = join(dir, 'long.csv');
+    writeFileSync(path, text);
+    const streamed = readMeasurementFile(path, { source: 'long.csv' });
+    const whole = readMeasurement(text, { source: 'long.csv' });
+    expect(streamed.t).toBeInstanceOf(Float64Array);
+    expect(streamed.t.length).toBe(80_000);
+    expect(Array.from(streamed.t)).toEqual(Array.from(whole.t));
+    expect(Array.from(streamed.signals.I!)).toEqual(Array.from(whole.signals.I!));
+    expect(streamed.t[79_999]).toBeCloseTo(39_999.5e-6, 15);
+  });
+
+  it('a row error deep in a streamed file names its line', () => {
+    const path = join(dir, 'bad.csv');
+    writeFileSync(path, ['t [us],I [kA]', ...Array.from({ length: 70_000 }, (_, k) => `${k},${k % 7}`), '70000,1.5.2'].join('\n') + '\n');
+    expect(() => readMeasurementFile(path, { source: 'bad.csv' })).toThrow(/^bad\.csv:70002: expected a number with a decimal point in column "I \[kA\]", found "1\.5\.2"$/);
+  });
+
+  it('a file without line ends (binary or one endless line) is refused at its first line, not read whole', () => {
+    const path = join(dir, 'endless.csv');
+    writeFileSync(path, 't [us],I [kA]\n' + '1,'.repeat(MAX_LINE_CHARACTERS));
+    expect(() => readMeasurementFile(path, { source: 'endless.csv' })).toThrow(/^endless\.csv:2: line longer than/);
+  });
+
+  it('a missing file is one line naming it', () => {
+    expect(() => readMeasurementFile(join(dir, 'nope.csv'), { source: 'nope.csv' })).toThrow(/^nope\.csv: no such file$/);
   });
 });
