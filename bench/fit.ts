@@ -1,7 +1,8 @@
 /**
  * Calibration cost: wall time, shots and iterations of the three-parameter fit of the measure CLI tests
  * (L′, contact resistance, μ from a noisy current, breech voltage and five probes), in process, a few
- * seeded noise draws. Prints figures; asserts nothing.
+ * seeded noise draws, with the samples left out at switching instants and those the Huber loss
+ * down-weighted. Prints figures; asserts nothing. Long records: bench/long-record.ts.
  *
  *   node --import tsx bench/fit.ts [--draws 3]
  */
@@ -40,7 +41,8 @@ for (let seed = 1; seed <= draws; seed++) {
   const seconds = (performance.now() - started) / 1000;
   for (const [path, truth] of Object.entries(TRUTH)) normalised[path]!.push((fit.parameters[path]!.value - truth) / fit.parameters[path]!.uncertainty);
   const errors = Object.entries(TRUTH).map(([path, truth]) => `${path} ${((fit.parameters[path]!.value - truth) / fit.parameters[path]!.uncertainty).toFixed(2)}σ`);
-  console.log(`draw ${seed}: ${seconds.toFixed(2)} s, ${fit.shots} shots (${shots} counted), ${fit.iterations} iterations, ${((seconds / shots) * 1000).toFixed(1)} ms/shot, ${measurement.t.length} samples; errors ${errors.join(', ')}`);
+  const use = fit.samples;
+  console.log(`draw ${seed}: ${seconds.toFixed(2)} s, ${fit.shots} shots (${shots} counted), ${use.outerIterations} fit run(s), ${fit.iterations} iterations in the last, ${((seconds / shots) * 1000).toFixed(1)} ms/shot, ${measurement.t.length} samples (${use.excluded.length} left out at switching instants, ${use.downWeighted.length} down-weighted); errors ${errors.join(', ')}`);
 }
 // for a correct covariance the (value − truth)/σ of repeated draws have unit spread (Numerical Recipes §15.6)
 for (const [path, z] of Object.entries(normalised)) {
