@@ -133,9 +133,10 @@ ${scenario.description ? `<p class="description" id="scenario-description">${esc
 </header>`;
 }
 
-function warningsSection(warnings: string[]): string {
+function warningsSection(warnings: string[], ringDown = false): string {
   if (warnings.length === 0) {
-    return '<section id="warnings" class="no-warnings" data-warnings="0">No warnings: the armature left the muzzle, no capacitor reversed beyond its rating, and the energy ledger closes.</section>';
+    const first = ringDown ? 'the bank discharged into the short' : 'the armature left the muzzle';
+    return `<section id="warnings" class="no-warnings" data-warnings="0">No warnings: ${first}, no capacitor reversed beyond its rating, and the energy ledger closes.</section>`;
   }
   const items = warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('\n');
   return `<section id="warnings" class="warnings" role="alert" data-warnings="${warnings.length}"><h2>Warnings (${warnings.length})</h2><ul>\n${items}\n</ul></section>`;
@@ -203,7 +204,7 @@ ${embeddedElements(block, input.scenarioRaw)}${input.overlay ? `\n${overlayEleme
 <body data-plots="pending">
 <main>
 ${headerSection(scenario, results, provenance)}
-${warningsSection(warnings)}
+${warningsSection(warnings, scenario.load !== undefined)}
 ${figuresSection(results)}
 ${input.overlay ? overlaySection(input.overlay, overlayPlots) : ''}
 ${safetySection(scenario)}
