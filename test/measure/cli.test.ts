@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readJsonScriptElement } from '../../src/report/escape.js';
 import { csvOptions, makeFixture, NOISE, PROBE_JITTER, railpulse, railpulseAsync, TRUTH, type CliResult, type Fixture } from './cli-fixture.js';
+import { refusalLine } from './one-line.js';
 
 let fixture: Fixture;
 beforeAll(() => {
@@ -180,14 +181,7 @@ describe('bad input: one line, exit 2', () => {
     cases.offset = railpulseAsync(['overlay', fixture.truthScenario, fixture.csv, '--map', 'CH1=I', '--unit', 'CH1=kA', '--offset', 't=2kV']);
     for (const [label, free] of FREE_CASES) cases[label] = railpulseAsync(['fit', fixture.scenario, fixture.csv, '--free', free, ...csvOptions(fixture)]);
   });
-  const oneLine = async (name: string): Promise<string> => {
-    const result = await cases[name]!;
-    expect(result.status).toBe(2);
-    const lines = result.stderr.trim().split('\n');
-    expect(lines).toHaveLength(1);
-    expect(lines[0]).not.toMatch(/internal error|    at /);
-    return lines[0]!;
-  };
+  const oneLine = (name: string): Promise<string> => refusalLine(cases[name]!);
 
   it('a CSV whose time goes backwards is reported at its file:line', async () => {
     expect(await oneLine('backwards')).toContain(`${join(fixture.dir, 'backwards.csv')}:5: time is not increasing`);

@@ -14,6 +14,7 @@ import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import { railpulse, railpulseAsync, type CliResult } from './cli-fixture.js';
 import { seededNormal } from './random.js';
+import { refusalLine } from './one-line.js';
 
 const module = (inductance: string, resistance: string, trigger: string) => ({ label: `G ${trigger}`, capacitance: '500 uF', voltage: '3 kV', esr: '2 mohm', inductance, resistance, trigger });
 const ringDown = (moduleL: string, moduleR: string, feedL: string, feedR: string) => ({
@@ -114,14 +115,7 @@ describe('ring-down bad input: one line naming the file, path or option, exit 2'
     cases.unusable = railpulseAsync(['fit', file('late-ring.json'), file('late.csv'), '--free', 'bank[0].inductance', '--no-report']);
     cases.unusableOverlay = railpulseAsync(['overlay', file('late-ring.json'), file('late.csv'), '--no-report']);
   });
-  const oneLine = async (name: string): Promise<string> => {
-    const result = await cases[name]!;
-    expect(result.status).toBe(2);
-    const lines = result.stderr.trim().split('\n');
-    expect(lines).toHaveLength(1);
-    expect(lines[0]).not.toMatch(/internal error|    at /);
-    return lines[0]!;
-  };
+  const oneLine = (name: string): Promise<string> => refusalLine(cases[name]!);
 
   it('a shorted load given rails (a launch-only key)', async () => {
     expect(await oneLine('rails')).toMatch(new RegExp(`${file('with-rails.json')}: rails: is a launch-only key: this scenario fires the bank into a shorted load`));
