@@ -32,7 +32,11 @@ export function rerunRecord(reportFile: string, shootLoaded: (loaded: LoadedScen
     throw error;
   }
   const source = JSON.stringify(archived.scenarioRaw, null, 2);
-  const loaded = loadScenarioText(source, `${reportFile} (archived scenario)`);
+  const read = loadScenarioText(source, `${reportFile} (archived scenario)`);
+  // The archived scenario is the file the record was made from: a record of the re-run carries that file's hash
+  // (and so the same tag in its name), not the hash of our re-serialised copy.
+  const archivedHash = archived.provenance.scenarioSha256;
+  const loaded: LoadedScenario = typeof archivedHash === 'string' && /^[0-9a-f]{64}$/.test(archivedHash) ? { ...read, sha256: archivedHash } : read;
   const { shot } = shootLoaded(loaded);
   const verdict = compareResults(archived.results, shot.results);
   const line = verdict.identical
