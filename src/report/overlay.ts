@@ -10,6 +10,7 @@ import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
 import { formatPlain, formatQuantity, scaleFor, NO_VALUE, type Scale } from './format.js';
 import { axis, baseLayout, maxAbs, round6, type PlotFigure } from './plots.js';
+import { largest } from '../core/extrema.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
 
@@ -158,7 +159,7 @@ function positionFigure(waveforms: Waveforms, positions: PositionPoints, time: S
 /** Overlay figures in page order: I, V_breech, V_muzzle (those measured), then probe positions. */
 export function overlayFigures(waveforms: Waveforms | null, overlay: OverlayInput, decimate: DecimateOptions = {}): PlotFigure[] {
   if (!waveforms || waveforms.t.length === 0) return [];
-  const tMax = Math.max(waveforms.t.at(-1) ?? 0, overlay.measurement?.t.at(-1) ?? 0, ...(overlay.positions?.t ?? []));
+  const tMax = Math.max(waveforms.t.at(-1) ?? 0, overlay.measurement?.t.at(-1) ?? 0, largest(overlay.positions?.t ?? []));
   const time = scaleFor(tMax);
   const figures: PlotFigure[] = [];
   if (overlay.measurement) {
