@@ -157,8 +157,9 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
     writer.close();
     await runner.close();
   }
-  summary.interrupted = options.signal?.aborted ?? false;
   summary.complete = resumedFrom + summary.ran === positions.length;
+  // a stop that came after the last batch was dispatched interrupted nothing
+  summary.interrupted = (options.signal?.aborted ?? false) && !summary.complete;
   summary.seconds = (performance.now() - started) / 1000;
   return summary;
 }
