@@ -3,7 +3,7 @@
  * exit code. A user's mistake is one line on stderr and exit code 2, never a stack trace.
  */
 import { Command, CommanderError } from 'commander';
-import { EXIT, InputError, errorCode, fileProblem } from '../core/errors.js';
+import { EXIT, classifyError, errorCode } from '../core/errors.js';
 import { registerRun } from './run.js';
 import { registerIndex } from './archive.js';
 import { registerMeasureCommands } from './measure.js';
@@ -57,12 +57,6 @@ export function commanderLine(message: string, command: string): string {
   return `${text.replace(/\.$/, "")}; see "${command} --help"`;
 }
 
-/** A file-system error that escaped its command: one line naming the path when a user can fix it. */
-function escapedFileProblem(error: unknown): InputError | undefined {
-  const path = (error as { path?: unknown } | null)?.path;
-  return typeof path === 'string' ? fileProblem(error, path) : undefined;
-}
-
 export function handle(error: unknown): never {
   if (error instanceof CommanderError) {
     if (error.exitCode === 0) process.exit(EXIT.ok);
@@ -71,15 +65,10 @@ export function handle(error: unknown): never {
     }
     process.exit(EXIT.input);
   }
-  const input = error instanceof InputError ? error : escapedFileProblem(error);
-  if (input) {
-    process.stderr.write(`railpulse: ${input.line()}\n`);
-    process.exit(EXIT.input);
-  }
-  const message = error instanceof Error ? error.message : String(error);
-  process.stderr.write(`railpulse: internal error: ${message}\n`);
-  if (process.env.RAILPULSE_DEBUG && error instanceof Error) process.stderr.write(`${error.stack}\n`);
-  process.exit(EXIT.internal);
+  const report = classifyError(error);
+  process.stderr.write(`railpulse: ${report.line}\n`);
+  if (report.code === EXIT.internal && process.env.RAILPULSE_DEBUG && error instanceof Error) process.stderr.write(`${error.stack}\n`);
+  process.exit(report.code);
 }
 
 /**

@@ -83,3 +83,22 @@ export function withFileProblems<T>(path: string, work: () => T, what = ''): T {
     throw fileProblem(error, path, what) ?? error;
   }
 }
+
+/** How the command line reports an error: its exit code and the one line on stderr. */
+export interface ErrorReport {
+  code: (typeof EXIT)['input'] | (typeof EXIT)['internal'];
+  line: string;
+}
+
+/**
+ * The one classification of errors every command shares (the CLI's handler and the fuzz test use it): input a
+ * user can fix, including a file-system problem that names its path, is exit 2; anything else is an internal
+ * error, exit 1.
+ */
+export function classifyError(error: unknown): ErrorReport {
+  const path = (error as { path?: unknown } | null)?.path;
+  const input = error instanceof InputError ? error : typeof path === 'string' ? fileProblem(error, path) : undefined;
+  if (input) return { code: EXIT.input, line: input.line() };
+  const message = error instanceof Error ? error.message : String(error);
+  return { code: EXIT.internal, line: `internal error: ${message}` };
+}

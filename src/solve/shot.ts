@@ -37,6 +37,9 @@ const SAMPLES_PER_STEP = 4;
 const MAX_EVENTS = 10_000;
 /** First step of the first odex run, in units of the time scale (see lastStep in runShot). */
 const FIRST_STEP = 0.1;
+/** Restarts with a shorter first step after a step overflowed, and how much shorter each is. */
+const MAX_OVERFLOW_RETRIES = 8;
+const OVERFLOW_STEP_FACTOR = 1e-3;
 /** Step cap in units of the fastest loop time constant (see fastestDecay). */
 const STEP_CAP_DECAYS = 4;
 /**
@@ -126,6 +129,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   /** events that fired at the current instant: not to fire again at the restart point */
   let justFired = new Set<string>();
   let locatedCount = 0;
+  let overflowRetries = 0;
   while (outcome === null) {
     if (locatedCount > MAX_EVENTS) {
       throw new IntegrationError(`more than ${MAX_EVENTS} events by t = ${t} s; the shot does not settle`);
@@ -314,7 +318,17 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const result = solver.solve(rhs, t / scale, active.map((c) => y[c]!), endTime / scale, observer);
     evaluations += result.nEval;
     restarts++;
-    if (blownUp) throw nonFinite(plant, (blownUp as { t: number; y: number[] }).t, reached);
+    if (blownUp) {
+      // odex accepts a step whose error estimate is NaN, so a first step far too long for a fast mode that has just
+      // switched on can overflow: restart once more from the last finite step with a much shorter first step.
+      if (overflowRetries >= MAX_OVERFLOW_RETRIES) throw nonFinite(plant, (blownUp as { t: number; y: number[] }).t, reached);
+      overflowRetries++;
+      if (reached.t !== t) justFired = new Set();
+      t = reached.t;
+      y = reached.y.slice();
+      lastStep = Math.min(lastStep, FIRST_STEP) * OVERFLOW_STEP_FACTOR;
+      continue;
+    }
     if (result.outcome === OUTCOME_MAX_STEPS) {
       throw new IntegrationError(
         `integration stopped after ${stepBudget} steps (solver.maxSteps) at t = ${reached.t} s with I = ${observe(plant, reached.y, mode).current} A, x = ${reached.y[ix.position]} m, v = ${reached.y[ix.velocity]} m/s`,
