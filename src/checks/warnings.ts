@@ -3,6 +3,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
+import { largest } from '../core/extrema.js';
 
 export interface ShotWarning {
   id: 'reversal' | 'stalled' | 'timeout' | 'ledger';
@@ -31,7 +32,7 @@ export function shotWarnings(scenario: Scenario, shot: Shot): ShotWarning[] {
   if (r.outcome === 'timeout') {
     warnings.push({ id: 'timeout', message: `the shot reached the end time ${(scenario.solver.endTime * 1e3).toFixed(3)} ms before exit or stall` });
   }
-  const worst = shot.waveforms ? Math.max(...shot.waveforms.energy.residual.map(Math.abs)) : Math.abs(r.energy.residual);
+  const worst = shot.waveforms ? largest(shot.waveforms.energy.residual, Math.abs) : Math.abs(r.energy.residual);
   if (worst > LEDGER_TOLERANCE * r.energy.initial) {
     warnings.push({ id: 'ledger', message: `energy ledger residual ${(worst / r.energy.initial).toExponential(2)} of the stored energy exceeds ${LEDGER_TOLERANCE}` });
   }

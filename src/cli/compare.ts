@@ -4,7 +4,7 @@
  */
 import type { Command } from 'commander';
 import { recordTag, reportDate, sha256 } from '../output/provenance.js';
-import { DEFAULT_REPORT_DIR, fileRecord } from '../pipeline/record.js';
+import { DEFAULT_REPORT_DIR, checkFilingPlace, fileRecord } from '../pipeline/record.js';
 import { shoot } from '../pipeline/shoot.js';
 import { buildComparisonReport, comparisonBaseName, type ComparisonEntry } from '../report/compare.js';
 import { loadScenarioFile } from '../scenario/load.js';
@@ -20,6 +20,7 @@ export function registerCompareCommand(program: Command): void {
     .option('--report <path>', `where to write the HTML comparison: a folder, or a new file ending in .html (default: ${DEFAULT_REPORT_DIR}/)`)
     .option('--no-report', 'do not write the HTML comparison')
     .action((files: string[], flags: { json?: boolean; report: string | boolean }) => {
+      if (flags.report !== false) checkFilingPlace(typeof flags.report === 'string' ? flags.report : undefined);
       const loaded = files.map((file) => loadScenarioFile(file));
       // One shot per scenario, with waveforms only when a report is wanted; the table reads the same shots.
       const assessed = loaded.map((l) => shoot(l, { waveforms: flags.report !== false }));

@@ -47,11 +47,14 @@ export async function sweepCommand(file: string, flags: SweepFlags): Promise<Swe
   checkAxes(plan, (scenario) => validateScenario(scenario));
   const jobs = flags.jobs === undefined ? availableParallelism() : parseWholeNumber('--jobs', flags.jobs, 1);
 
-  // First Ctrl-C (or a kill): finish the batches in flight and write them; a second Ctrl-C leaves at once.
+  // First Ctrl-C, or SIGTERM (kill, scancel, a scheduler's time limit): finish the batches in flight and write them,
+  // then exit 128 + the signal's number. A second signal leaves at once (what is written is kept).
   const controller = new AbortController();
-  const stop = (): void => {
-    if (controller.signal.aborted) process.exit(130);
-    say('\nstopping: finishing the points in flight (Ctrl-C again to leave now)');
+  let stoppedBy: NodeJS.Signals | null = null;
+  const stop = (signal: NodeJS.Signals): void => {
+    if (controller.signal.aborted) process.exit(signalExitCode(signal));
+    stoppedBy = signal;
+    say(`\nstopping (${signal}): finishing the points in flight (Ctrl-C again to leave now)`);
     controller.abort();
   };
   process.on('SIGINT', stop);
@@ -77,9 +80,10 @@ export async function sweepCommand(file: string, flags: SweepFlags): Promise<Swe
   }
   // The last line replaces the progress bar on a terminal.
   const finish = (line: string): void => (progress ? progress.finish(line) : say(line));
+  if (summary.autoResumed) say(`continued the study already in ${summary.outDir}: ${summary.resumedFrom} of its ${summary.points} points were there`);
   if (summary.interrupted) {
-    finish(`interrupted: ${done} of ${summary.points} points saved in ${summary.outDir}; continue with --resume --out ${summary.outDir}`);
-    process.exitCode = 130;
+    finish(`interrupted: ${done} of ${summary.points} points saved in ${summary.outDir}; run the same command again (or --resume --out ${summary.outDir}) to continue`);
+    process.exitCode = signalExitCode(stoppedBy ?? 'SIGINT');
   } else {
     finish(`${summary.complete ? 'done' : 'stopped'}: ${done} of ${summary.points} points (${summary.ran} run now, ${summary.failed} failed) in ${formatDuration(summary.seconds)}, ${rate.toFixed(0)} shots/s → ${summary.outDir}`);
   }
@@ -98,7 +102,7 @@ export function registerSweepCommands(program: Command): void {
     .option('--jobs <n>', 'worker threads (default: all cores)')
     .option('--out <dir>', 'study directory (default studies/<date>_<name>_<hash>)')
     .option('--shard <i/n>', 'run only the points with index % n == i − 1 (for cluster job arrays; join with merge)')
-    .option('--resume', 'continue an interrupted study in --out (or the default directory)')
+    .option('--resume', 'continue an interrupted study in --out (or the default directory); a folder that holds the same study is continued anyway')
     .option('--no-report', 'do not write study.html')
     .option('--json', 'print a summary as JSON on stdout')
     .action(async (scenario: string, flags: SweepFlags) => {
@@ -114,4 +118,9 @@ export function registerSweepCommands(program: Command): void {
       if (flags.report) writeStudyReport(flags.out, summary.manifest);
       say(`merged ${summary.shards} shards, ${summary.points} points → ${flags.out}`);
     });
+}
+
+/** The shell's convention: 128 + the signal number (130 for SIGINT, 143 for SIGTERM). */
+function signalExitCode(signal: NodeJS.Signals): number {
+  return signal === 'SIGTERM' ? 143 : 130;
 }

@@ -146,10 +146,11 @@ function canonical(name: string): string {
  * the library. An unknown name raises InputError at `path` with the closest known name.
  */
 export function getMaterial(name: string, path = 'material', userMaterials: Readonly<Record<string, Material>> = {}): Material {
-  const own = userMaterials[name];
+  // own keys only: a material named "constructor" or "__proto__" is a plain name, never Object.prototype's
+  const own = Object.hasOwn(userMaterials, name) ? userMaterials[name] : undefined;
   if (own) return own;
   const key = canonical(name);
-  const libraryName = (key in MATERIALS ? key : ALIASES[key]) as MaterialName | undefined;
+  const libraryName = (Object.hasOwn(MATERIALS, key) ? key : Object.hasOwn(ALIASES, key) ? ALIASES[key] : undefined) as MaterialName | undefined;
   if (libraryName) return plain(MATERIALS[libraryName]);
   const known = [...Object.keys(userMaterials), ...Object.keys(MATERIALS)];
   const suggestion = closest(key, known);
@@ -235,7 +236,8 @@ export function userMaterialsFromObject(raw: unknown, path = 'materials'): Recor
   const table: Record<string, Material> = {};
   for (const [name, entry] of Object.entries(raw as Record<string, unknown>)) {
     if (name.trim() === '') throw new InputError(path, 'a material needs a non-empty name');
-    table[name] = materialFromObject(entry, `${path}.${name}`, name);
+    // defineProperty: assigning table["__proto__"] would replace the table's prototype instead of adding a material
+    Object.defineProperty(table, name, { value: materialFromObject(entry, `${path}.${name}`, name), enumerable: true, writable: true, configurable: true });
   }
   return table;
 }

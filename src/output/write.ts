@@ -4,23 +4,85 @@
  * final name; link() fails with EEXIST instead of replacing, so a collision picks the next free name.
  */
 import { randomBytes } from 'node:crypto';
-import { closeSync, existsSync, fsyncSync, linkSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
-import { InputError } from '../core/errors.js';
+import { accessSync, closeSync, readFileSync, constants, existsSync, fsyncSync, linkSync, openSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
+import { InputError, errorCode, fileProblem } from '../core/errors.js';
 
 const MAX_SUFFIX = 10_000;
 
-function writeTemporary(dir: string, baseName: string, content: string | Uint8Array): string {
+/**
+ * Write `content` to a new temporary file in `dir`. A failure the user can fix (a read-only or full disk, no
+ * permission) names `target`, the file the user asked for: the temporary name is ours and means nothing to them.
+ */
+function writeTemporary(dir: string, baseName: string, content: string | Uint8Array, target: string): string {
   // A random temporary name avoids colliding with a concurrent writer; it never reaches the final name.
   const temp = join(dir, `.${baseName}.${process.pid}.${randomBytes(6).toString('hex')}.tmp`);
-  const fd = openSync(temp, 'wx', 0o644);
+  let fd: number;
+  try {
+    fd = openSync(temp, 'wx', 0o644);
+  } catch (error) {
+    throw fileProblem(error, target, 'cannot write') ?? error;
+  }
   try {
     writeSync(fd, typeof content === 'string' ? Buffer.from(content, 'utf8') : content);
     fsyncSync(fd);
-  } finally {
+  } catch (error) {
     closeSync(fd);
+    removeQuietly(temp);
+    throw fileProblem(error, target, 'cannot write') ?? error;
   }
+  closeSync(fd);
   return temp;
+}
+
+function removeQuietly(path: string): void {
+  try {
+    unlinkSync(path);
+  } catch {
+    // already gone, or the folder went read-only meanwhile: nothing more can be done about a temporary file
+  }
+}
+
+/** The nearest folder of `path` that exists (the one a recursive mkdir would create the rest in). */
+function nearestExisting(path: string): string {
+  let dir = resolve(path);
+  while (!existsSync(dir)) {
+    const parent = dirname(dir);
+    if (parent === dir) break;
+    dir = parent;
+  }
+  return dir;
+}
+
+/** Refuse (InputError naming `option` and `dir`) a folder that is a file or cannot be written or created. */
+export function checkWritableFolder(dir: string, option: string): void {
+  if (existsSync(dir) && !statSync(dir).isDirectory()) {
+    throw new InputError(option, `${dir} is a file; give a folder or a new file name ending in .html`);
+  }
+  const existing = nearestExisting(dir);
+  if (!statSync(existing).isDirectory()) throw new InputError(option, `${existing} is a file, so ${dir} cannot be a folder`);
+  try {
+    accessSync(existing, constants.W_OK);
+  } catch (error) {
+    const problem = fileProblem(error, dir, 'cannot write in this folder');
+    throw problem ? new InputError(option, problem.message) : error;
+  }
+}
+
+/**
+ * Refuse, before any work is done, an output file whose name the user chose when it exists already or its folder
+ * is missing or not writable: a long computation must not end in "cannot write".
+ */
+export function checkNewFile(path: string, option: string): void {
+  const folder = dirname(path) || '.';
+  if (!existsSync(folder) || !statSync(folder).isDirectory()) throw new InputError(option, `the folder of ${path} does not exist`);
+  if (existsSync(path)) throw new InputError(option, `${path} exists; railpulse never overwrites a file, choose another name`);
+  try {
+    accessSync(folder, constants.W_OK);
+  } catch (error) {
+    const problem = fileProblem(error, path, 'cannot write in its folder');
+    throw problem ? new InputError(option, problem.message) : error;
+  }
 }
 
 /**
@@ -29,7 +91,8 @@ function writeTemporary(dir: string, baseName: string, content: string | Uint8Ar
  */
 export function writeNewFile(dir: string, baseName: string, ext: string, content: string | Uint8Array): string {
   const extension = ext === '' || ext.startsWith('.') ? ext : `.${ext}`;
-  const temp = writeTemporary(dir, baseName, content);
+  const first = join(dir, `${baseName}${extension}`);
+  const temp = writeTemporary(dir, baseName, content, first);
   try {
     for (let n = 1; n <= MAX_SUFFIX; n++) {
       const candidate = join(dir, `${baseName}${n === 1 ? '' : `-${n}`}${extension}`);
@@ -37,12 +100,12 @@ export function writeNewFile(dir: string, baseName: string, ext: string, content
         linkSync(temp, candidate);
         return candidate;
       } catch (error) {
-        if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+        if (errorCode(error) !== 'EEXIST') throw fileProblem(error, candidate, 'cannot write') ?? error;
       }
     }
-    throw new Error(`no free file name for ${baseName}${extension} in ${dir} after ${MAX_SUFFIX} tries`);
+    throw new InputError(dir, `no free file name for ${baseName}${extension} after ${MAX_SUFFIX} tries; clear the folder or choose another`);
   } finally {
-    unlinkSync(temp);
+    removeQuietly(temp);
   }
 }
 
@@ -81,24 +144,50 @@ export function reportFileName(date: string | Date, scenarioName: string, shortH
  */
 export function writeExactFile(path: string, content: string | Uint8Array, option: string): void {
   if (!existsSync(dirname(path) || '.')) throw new InputError(option, `the folder of ${path} does not exist`);
-  const temp = writeTemporary(dirname(path), basename(path), content);
+  if (existsSync(path)) throw new InputError(option, `${path} exists; railpulse never overwrites a file, choose another name`);
+  const temp = writeTemporary(dirname(path) || '.', basename(path), content, path);
   try {
     linkSync(temp, path);
   } catch (error) {
-    if ((error as NodeJS.ErrnoException).code === 'EEXIST') {
+    if (errorCode(error) === 'EEXIST') {
       throw new InputError(option, `${path} exists; railpulse never overwrites a file, choose another name`);
     }
-    if ((error as NodeJS.ErrnoException).code === 'ENOENT') {
+    if (errorCode(error) === 'ENOENT') {
       throw new InputError(option, `the folder of ${path} does not exist`);
     }
-    throw error;
+    throw fileProblem(error, path, 'cannot write') ?? error;
   } finally {
-    unlinkSync(temp);
+    removeQuietly(temp);
   }
 }
 
-/** Replace `path` atomically (temporary file + rename): only for derived views such as an archive index. */
-export function replaceFile(path: string, content: string): void {
-  const temp = writeTemporary(dirname(path), basename(path), content);
-  renameSync(temp, path);
+/**
+ * Replace `path` atomically (temporary file + rename): only for derived views such as an archive index, and
+ * only over a file that `isOurs` recognises as one railpulse wrote (checked again just before the rename).
+ */
+export function replaceOwnFile(path: string, content: string, isOurs: (existing: string) => boolean, option: string): void {
+  checkReplaceable(path, isOurs, option);
+  const temp = writeTemporary(dirname(path) || '.', basename(path), content, path);
+  try {
+    checkReplaceable(path, isOurs, option);
+    renameSync(temp, path);
+  } catch (error) {
+    removeQuietly(temp);
+    throw fileProblem(error, path, 'cannot write') ?? error;
+  }
+}
+
+/** Refuse to replace a file railpulse did not write (or a folder), naming it. */
+export function checkReplaceable(path: string, isOurs: (existing: string) => boolean, option: string): void {
+  if (!existsSync(path)) return;
+  if (!statSync(path).isFile()) throw new InputError(option, `${path} is not a file; railpulse will not replace it`);
+  let existing: string;
+  try {
+    existing = readFileSync(path, 'utf8');
+  } catch (error) {
+    throw fileProblem(error, path, 'cannot read') ?? error;
+  }
+  if (!isOurs(existing)) {
+    throw new InputError(option, `${path} exists and was not written by railpulse; it is left as it is: move it away or choose another folder`);
+  }
 }

@@ -5,10 +5,10 @@
  */
 import { existsSync, mkdirSync, statSync } from 'node:fs';
 import { recordTag, reportDate } from '../output/provenance.js';
-import { reportBaseName, writeExactFile, writeNewFile } from '../output/write.js';
+import { checkNewFile, checkWritableFolder, reportBaseName, writeExactFile, writeNewFile } from '../output/write.js';
 import { buildShotReport } from '../report/html.js';
 import type { OverlayInput } from '../report/overlay.js';
-import { InputError } from '../core/errors.js';
+import { InputError, withFileProblems } from '../core/errors.js';
 import type { AssessedShot } from './shoot.js';
 
 export const DEFAULT_REPORT_DIR = 'reports';
@@ -22,6 +22,16 @@ export interface FilingPlace {
   option?: string;
 }
 
+/**
+ * Check, before a command does its work, that a page can be filed where the user asked: a new .html file that
+ * does not exist yet in an existing, writable folder, or a folder that is writable or can be created.
+ */
+export function checkFilingPlace(target: string | undefined, option = '--report'): void {
+  const place = target ?? DEFAULT_REPORT_DIR;
+  if (place.toLowerCase().endsWith('.html')) checkNewFile(place, option);
+  else checkWritableFolder(place, option);
+}
+
 /** Write a page where `place` says; returns the path written. */
 export function fileRecord(html: string, place: FilingPlace): string {
   const target = place.target ?? DEFAULT_REPORT_DIR;
@@ -33,7 +43,7 @@ export function fileRecord(html: string, place: FilingPlace): string {
   if (existsSync(target) && !statSync(target).isDirectory()) {
     throw new InputError(option, `${target} is a file; give a folder or a new file name ending in .html`);
   }
-  mkdirSync(target, { recursive: true });
+  withFileProblems(target, () => mkdirSync(target, { recursive: true }), 'cannot create the folder');
   return writeNewFile(target, place.baseName, '.html', html);
 }
 

@@ -7,6 +7,8 @@ import { compareResults } from '../output/rerun.js';
 import { NotAReportError, readEmbedded } from '../report/embedded.js';
 import { loadScenarioText, type LoadedScenario } from '../scenario/load.js';
 import { InputError } from '../core/errors.js';
+import { MAX_JSON_DEPTH } from '../scenario/jsonError.js';
+import { nestingDepth } from '../scenario/source.js';
 import type { AssessedShot } from './shoot.js';
 
 export interface RerunVerdict {
@@ -21,8 +23,8 @@ export function rerunRecord(reportFile: string, shootLoaded: (loaded: LoadedScen
   let html: string;
   try {
     html = readFileSync(reportFile, 'utf8');
-  } catch {
-    throw new InputError('--from-report', `cannot read ${reportFile}`);
+  } catch (error) {
+    throw new InputError('--from-report', `cannot read ${reportFile} (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
   }
   let archived;
   try {
@@ -31,8 +33,16 @@ export function rerunRecord(reportFile: string, shootLoaded: (loaded: LoadedScen
     if (error instanceof NotAReportError) throw new InputError('--from-report', `${reportFile} is not a railpulse shot report (${error.message})`);
     throw error;
   }
+  // A record is a file anyone can edit: data nested deeper than any record holds would overflow the stack below.
+  if (nestingDepth(archived.scenarioRaw) > MAX_JSON_DEPTH || nestingDepth(archived.results) > MAX_JSON_DEPTH) {
+    throw new InputError('--from-report', `${reportFile}: its embedded data is nested deeper than ${MAX_JSON_DEPTH} levels; not a railpulse record`);
+  }
   const source = JSON.stringify(archived.scenarioRaw, null, 2);
-  const loaded = loadScenarioText(source, `${reportFile} (archived scenario)`);
+  const read = loadScenarioText(source, `${reportFile} (archived scenario)`);
+  // The archived scenario is the file the record was made from: a record of the re-run carries that file's hash
+  // (and so the same tag in its name), not the hash of our re-serialised copy.
+  const archivedHash = archived.provenance.scenarioSha256;
+  const loaded: LoadedScenario = typeof archivedHash === 'string' && /^[0-9a-f]{64}$/.test(archivedHash) ? { ...read, sha256: archivedHash } : read;
   const { shot } = shootLoaded(loaded);
   const verdict = compareResults(archived.results, shot.results);
   const line = verdict.identical

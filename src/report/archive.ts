@@ -180,7 +180,7 @@ export function buildArchiveIndex(entries: ArchiveEntry[], options: ArchiveOptio
       `<th scope="col" class="sortable${c.numeric ? ' num' : ''}" tabindex="0" data-column="${c.key}" data-type="${c.numeric ? 'number' : 'text'}">${escapeHtml(c.title)}</th>`,
   ).join('');
   const rows = ordered.map(row).join('\n');
-  return `${pageStart(`${title} \u2014 railpulse`)}
+  return `${pageStart(`${title} \u2014 railpulse`, { generator: ARCHIVE_INDEX_GENERATOR })}
 </head>
 <body>
 <main class="wide">
@@ -198,4 +198,12 @@ ${rows}
 </body>
 </html>
 `;
+}
+
+/** The generator an index page names in its head: `index` replaces an index.html only when it carries this mark. */
+export const ARCHIVE_INDEX_GENERATOR = 'railpulse index';
+
+/** Whether an existing page is an archive index railpulse wrote (its generator meta element). */
+export function isArchiveIndex(html: string): boolean {
+  return /<meta\s+name="generator"\s+content="railpulse index"\s*\/?>/i.test(html.slice(0, 4096));
 }

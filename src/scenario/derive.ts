@@ -7,11 +7,13 @@ import { InputError } from '../core/errors.js';
 import type { Scenario } from './types.js';
 import { toSI, DIMENSIONS, QuantityError } from '../units/quantity.js';
 import { railGeometryFromObject } from '../conductors/inductance.js';
-import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material } from '../conductors/materials.js';
+import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material, type MaterialField } from '../conductors/materials.js';
 import { deriveRails } from '../conductors/rails.js';
 import { deriveArmature } from '../conductors/armature.js';
 import { bankCharacteristicTime } from '../conductors/resistance.js';
 import { LIMIT_DIMENSIONS, validateLimits } from './limits.js';
+import { MAX_NAME_LENGTH, type QuantityField, type Range } from './fields.js';
+import { rangeProblem } from './ranges.js';
 
 type Read = Record<string, unknown>;
 
@@ -19,19 +21,49 @@ function section(read: Read, key: string): Read {
   return (read[key] as Read | null | undefined) ?? {};
 }
 
-/** Material fields may carry units ("1.72e-8 ohm m", "1084.6 degC"): read them to SI first. */
+/** Most materials a scenario may define. */
+const MAX_MATERIALS = 100;
+
+const within = (min: number, max: number, minExclusive = false): Range => ({ min, max, minExclusive });
+/**
+ * Plausible ranges of a material's properties (SI; the melting point in °C): from graphite to silver, lithium to
+ * tungsten, with room to spare.
+ */
+const MATERIAL_RANGES: Record<MaterialField, Range> = {
+  resistivity: within(1e-10, 1e2),
+  temperatureCoefficient: within(0, 1, true),
+  density: within(100, 1e5),
+  specificHeat: within(10, 1e5),
+  meltingTemperature: within(20, 5000, true),
+  latentHeat: within(0, 1e8, true),
+};
+
+function materialField(key: MaterialField): QuantityField {
+  return { kind: 'quantity', dimension: DIMENSIONS[MATERIAL_FIELD_DIMENSIONS[key]], range: MATERIAL_RANGES[key], description: key };
+}
+
+/** Material fields may carry units ("1.72e-8 ohm m", "1084.6 degC"): read them to SI first, within range. */
 function materialInSI(raw: unknown, path: string): unknown {
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
   const out: Record<string, unknown> = { ...(raw as Record<string, unknown>) };
+  if (typeof out.name === 'string' && out.name.length > MAX_NAME_LENGTH) {
+    throw new InputError(`${path}.name`, `expected a text of at most ${MAX_NAME_LENGTH} characters, got ${out.name.length}`);
+  }
   for (const key of MATERIAL_FIELDS) {
-    const value = out[key];
-    if (typeof value !== 'string') continue;
-    try {
-      out[key] = toSI(value, DIMENSIONS[MATERIAL_FIELD_DIMENSIONS[key]]);
-    } catch (error) {
-      if (error instanceof QuantityError) throw new InputError(`${path}.${key}`, error.message);
-      throw error;
+    let value = out[key];
+    if (typeof value === 'string') {
+      if (value.length > 100) throw new InputError(`${path}.${key}`, `expected a quantity such as "1.72e-8 ohm m", got a text of ${value.length} characters`);
+      try {
+        value = toSI(value, DIMENSIONS[MATERIAL_FIELD_DIMENSIONS[key]]);
+      } catch (error) {
+        if (error instanceof QuantityError) throw new InputError(`${path}.${key}`, error.message);
+        throw error;
+      }
+      out[key] = value;
     }
+    if (typeof value !== 'number' || !Number.isFinite(value)) continue; // the material reader names the problem
+    const problem = rangeProblem(materialField(key), value);
+    if (problem) throw new InputError(`${path}.${key}`, problem);
   }
   return out;
 }
@@ -42,7 +74,12 @@ function userMaterials(read: Read): Record<string, Material> {
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
     throw new InputError('materials', 'expected an object of materials by name');
   }
-  const inSI = Object.fromEntries(Object.entries(raw as Read).map(([name, m]) => [name, materialInSI(m, `materials.${name}`)]));
+  const entries = Object.entries(raw as Read);
+  if (entries.length > MAX_MATERIALS) throw new InputError('materials', `expected at most ${MAX_MATERIALS} materials, got ${entries.length}`);
+  for (const [name] of entries) {
+    if (name.length > MAX_NAME_LENGTH) throw new InputError('materials', `a material name has ${name.length} characters; at most ${MAX_NAME_LENGTH}`);
+  }
+  const inSI = Object.fromEntries(entries.map(([name, m]) => [name, materialInSI(m, `materials.${name}`)]));
   return userMaterialsFromObject(inSI, 'materials');
 }
 
@@ -50,7 +87,7 @@ function limitsInSI(raw: unknown): unknown {
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
   const out: Record<string, unknown> = {};
   for (const [key, value] of Object.entries(raw as Read)) {
-    const dimension = LIMIT_DIMENSIONS[key as keyof typeof LIMIT_DIMENSIONS];
+    const dimension = Object.hasOwn(LIMIT_DIMENSIONS, key) ? LIMIT_DIMENSIONS[key as keyof typeof LIMIT_DIMENSIONS] : undefined;
     if (dimension && typeof value === 'string') {
       try {
         out[key] = toSI(value, dimension);

@@ -5,21 +5,38 @@
 import { DIMENSIONS, type Dimension } from '../units/quantity.js';
 import { parsePath } from './paths.js';
 
+/**
+ * The plausible range of a quantity (SI): what the tool accepts. Wide enough for any bench or laboratory
+ * launcher, narrow enough that no state of the model overflows a double (a 1e308 V bank is a typo, not a shot).
+ * A value exactly at a bound is within the range.
+ */
+export interface Range {
+  min: number;
+  max: number;
+  /** the lower bound itself is not allowed (an inductance must be > 0) */
+  minExclusive?: boolean;
+}
 export interface QuantityField {
   kind: 'quantity';
   dimension: Dimension;
+  range: Range;
+  /** what the value is, for messages ("a capacitance"); default: from the dimension */
+  noun?: string;
   required?: boolean;
   default?: number;
   description: string;
 }
 export interface IntegerField {
   kind: 'integer';
+  range: Range;
   required?: boolean;
   default?: number;
   description: string;
 }
 export interface TextField {
   kind: 'text';
+  /** longest text accepted (characters) */
+  maxLength: number;
   required?: boolean;
   description: string;
 }
@@ -34,6 +51,8 @@ export interface SectionField {
 export interface ListField {
   kind: 'list';
   item: SectionField;
+  /** most items accepted */
+  maxItems: number;
   required?: boolean;
   description: string;
 }
@@ -45,42 +64,60 @@ export interface RawField {
 }
 export type Field = QuantityField | IntegerField | TextField | SectionField | ListField | RawField;
 
-const q = (dimension: Dimension, description: string, extra: { required?: boolean; default?: number } = {}): QuantityField => ({
+const q = (dimension: Dimension, range: Range, description: string, extra: { required?: boolean; default?: number; noun?: string } = {}): QuantityField => ({
   kind: 'quantity',
   dimension,
+  range,
   description,
   ...extra,
 });
 const D = DIMENSIONS;
+/** [min, max], both included */
+const within = (min: number, max: number): Range => ({ min, max });
+/** (0, max]: above zero */
+const positive = (max: number): Range => ({ min: 0, max, minExclusive: true });
+
+/** Longest name or label, and longest description, in characters. */
+export const MAX_NAME_LENGTH = 200;
+export const MAX_DESCRIPTION_LENGTH = 10_000;
+/** Most module groups in a bank (each group is any number of identical modules). */
+export const MAX_GROUPS = 1_000;
+
+// Plausible ranges shared by several keys (SI).
+const RESISTANCE = within(0, 1e6); // up to 1 MΩ
+const INDUCTANCE = within(1e-12, 1); // 1 pH … 1 H
+const CROSS_SECTION = positive(10); // rail and armature dimensions up to 10 m
+const TIME = within(0, 10); // the longest end time
 
 export const MODULE_FIELDS: Record<string, Field> = {
-  label: { kind: 'text', description: 'name of the group, shown in outputs' },
-  count: { kind: 'integer', default: 1, description: 'number of identical modules fired together' },
-  capacitance: q(D.capacitance, 'capacitance of one module', { required: true }),
-  voltage: q(D.voltage, 'charge voltage V0 (> 0)', { required: true }),
-  esr: q(D.resistance, 'capacitor equivalent series resistance of one module', { default: 0 }),
-  inductance: q(D.inductance, 'module inductance: pulse-shaping inductor + ESL + cabling (> 0)', { required: true }),
-  resistance: q(D.resistance, 'module series resistance outside the crowbar loop', { default: 0 }),
-  trigger: q(D.time, 'trigger time of the closing switch', { default: 0 }),
+  label: { kind: 'text', maxLength: MAX_NAME_LENGTH, description: 'name of the group, shown in outputs' },
+  count: { kind: 'integer', range: within(1, 10_000), default: 1, description: 'number of identical modules fired together' },
+  capacitance: q(D.capacitance, within(1e-12, 10), 'capacitance of one module', { required: true }),
+  voltage: q(D.voltage, positive(1e6), 'charge voltage V0 (> 0)', { required: true, noun: 'a charge voltage' }),
+  esr: q(D.resistance, RESISTANCE, 'capacitor equivalent series resistance of one module', { default: 0 }),
+  inductance: q(D.inductance, INDUCTANCE, 'module inductance: pulse-shaping inductor + ESL + cabling (> 0)', { required: true }),
+  resistance: q(D.resistance, RESISTANCE, 'module series resistance outside the crowbar loop', { default: 0 }),
+  trigger: q(D.time, TIME, 'trigger time of the closing switch', { default: 0 }),
   crowbar: {
     kind: 'section',
     optional: true,
     description: 'crowbar diode across the capacitor; absent or null = none',
     fields: {
-      drop: q(D.voltage, 'diode forward drop V_D', { default: 0 }),
-      resistance: q(D.resistance, 'diode on-resistance R_D of one module', { default: 0 }),
+      drop: q(D.voltage, within(0, 1e5), 'diode forward drop V_D', { default: 0 }),
+      resistance: q(D.resistance, RESISTANCE, 'diode on-resistance R_D of one module', { default: 0 }),
     },
   },
-  ratedReversal: q(D.dimensionless, "capacitor's rated voltage reversal as a fraction of V0 (checks; default limits.ratedReversal, 20 %)"),
+  ratedReversal: q(D.dimensionless, within(0, 1), "capacitor's rated voltage reversal as a fraction of V0 (checks; default limits.ratedReversal, 20 %)", { noun: 'a fraction' }),
 };
 
 export const SCENARIO_FIELDS: Record<string, Field> = {
-  $schema: { kind: 'text', description: 'JSON Schema of this file (for editors)' },
-  name: { kind: 'text', required: true, description: 'short name of the shot' },
-  description: { kind: 'text', description: 'what the shot is for' },
+  $schema: { kind: 'text', maxLength: 2_000, description: 'JSON Schema of this file (for editors)' },
+  name: { kind: 'text', maxLength: MAX_NAME_LENGTH, required: true, description: 'short name of the shot' },
+  description: { kind: 'text', maxLength: MAX_DESCRIPTION_LENGTH, description: 'what the shot is for' },
   bank: {
     kind: 'list',
     required: true,
+    maxItems: MAX_GROUPS,
     description: 'module groups of the capacitor bank',
     item: { kind: 'section', description: 'a group of identical modules', fields: MODULE_FIELDS },
   },
@@ -89,8 +126,8 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     required: true,
     description: 'busbar/coax from the bank to the breech (includes the breech inductance)',
     fields: {
-      inductance: q(D.inductance, 'feed inductance L_f (> 0)', { required: true }),
-      resistance: q(D.resistance, 'feed resistance R_f', { default: 0 }),
+      inductance: q(D.inductance, INDUCTANCE, 'feed inductance L_f (> 0)', { required: true }),
+      resistance: q(D.resistance, RESISTANCE, 'feed resistance R_f', { default: 0 }),
     },
   },
   load: {
@@ -98,51 +135,51 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     optional: true,
     description: 'a shorted load in place of rails and armature (a ring-down of the bank); absent = a launch. With a load, rails, armature, friction, drag and target are not given',
     fields: {
-      kind: { kind: 'text', required: true, description: '"short": the bank fired into a short at the breech' },
-      inductance: q(D.inductance, "the short's own inductance (shorting bar or dummy load); the feed keeps its own", { default: 0 }),
-      resistance: q(D.resistance, "the short's own resistance", { default: 0 }),
+      kind: { kind: 'text', required: true, maxLength: 20, description: '"short": the bank fired into a short at the breech' },
+      inductance: q(D.inductance, within(0, 1), "the short's own inductance (shorting bar or dummy load); the feed keeps its own", { default: 0 }),
+      resistance: q(D.resistance, RESISTANCE, "the short's own resistance", { default: 0 }),
     },
   },
   rails: {
     kind: 'section',
     description: 'the two rails (required unless load is given)',
     fields: {
-      length: q(D.length, 'rail length from the breech to the muzzle', { required: true }),
-      inductanceGradient: q(D.inductanceGradient, "inductance gradient L' (required unless rails.geometry is given)"),
-      resistanceGradient: q(D.resistanceGradient, "loop resistance of both rails per metre of travel R' (default 0, or from geometry and material)"),
+      length: q(D.length, positive(1e4), 'rail length from the breech to the muzzle', { required: true }),
+      inductanceGradient: q(D.inductanceGradient, within(1e-9, 1e-4), "inductance gradient L' (required unless rails.geometry is given)"),
+      resistanceGradient: q(D.resistanceGradient, within(0, 1e3), "loop resistance of both rails per metre of travel R' (default 0, or from geometry and material)"),
       geometry: {
         kind: 'section',
         optional: true,
         description: 'rail cross-section: { height, width, separation } for rectangular rails or { radius, centreDistance } for round rails',
         fields: {
-          height: q(D.length, 'rail height (the face the armature slides on)'),
-          width: q(D.length, 'rail width (thickness away from the bore)'),
-          separation: q(D.length, "gap between the rails' inner faces"),
-          radius: q(D.length, 'round rail radius'),
-          centreDistance: q(D.length, 'distance between the round rails\' centres'),
+          height: q(D.length, CROSS_SECTION, 'rail height (the face the armature slides on)'),
+          width: q(D.length, CROSS_SECTION, 'rail width (thickness away from the bore)'),
+          separation: q(D.length, CROSS_SECTION, "gap between the rails' inner faces"),
+          radius: q(D.length, CROSS_SECTION, 'round rail radius'),
+          centreDistance: q(D.length, CROSS_SECTION, 'distance between the round rails\' centres'),
         },
       },
       material: { kind: 'raw', description: 'rail material: a library name (copper, copper-chromium, aluminium-6061-t6, aluminium-7075-t6, aluminium-1350) or one from "materials"' },
-      inductanceModel: { kind: 'text', description: 'which L\' from geometry the shot uses: "high-frequency" (default) or "uniform"' },
+      inductanceModel: { kind: 'text', maxLength: 40, description: 'which L\' from geometry the shot uses: "high-frequency" (default) or "uniform"' },
     },
   },
   armature: {
     kind: 'section',
     description: 'the sliding armature (required unless load is given)',
     fields: {
-      mass: q(D.mass, 'armature (and payload) mass (required unless geometry and material give it)'),
-      position: q(D.length, 'initial distance from the breech', { default: 0 }),
-      resistance: q(D.resistance, 'armature resistance R_a', { default: 0 }),
-      contactResistance: q(D.resistance, 'total contact resistance R_c', { default: 0 }),
-      arcDrop: q(D.voltage, 'arc drop V_arc (0 for a solid armature)', { default: 0 }),
+      mass: q(D.mass, within(1e-9, 1e5), 'armature (and payload) mass (required unless geometry and material give it)'),
+      position: q(D.length, within(0, 1e4), 'initial distance from the breech', { default: 0 }),
+      resistance: q(D.resistance, RESISTANCE, 'armature resistance R_a', { default: 0 }),
+      contactResistance: q(D.resistance, RESISTANCE, 'total contact resistance R_c', { default: 0 }),
+      arcDrop: q(D.voltage, within(0, 1e5), 'arc drop V_arc (0 for a solid armature)', { default: 0 }),
       geometry: {
         kind: 'section',
         optional: true,
         description: 'solid armature block: height (current path across the bore), width (across the bore), length (along the bore)',
         fields: {
-          height: q(D.length, 'current path length across the bore', { required: true }),
-          width: q(D.length, 'width of the conducting block', { required: true }),
-          length: q(D.length, 'length of the conducting block along the bore', { required: true }),
+          height: q(D.length, CROSS_SECTION, 'current path length across the bore', { required: true }),
+          width: q(D.length, CROSS_SECTION, 'width of the conducting block', { required: true }),
+          length: q(D.length, CROSS_SECTION, 'length of the conducting block along the bore', { required: true }),
         },
       },
       material: { kind: 'raw', description: 'armature material: a library name or one from "materials"' },
@@ -153,10 +190,10 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     optional: true,
     description: 'sliding friction at the rail contacts; absent = none',
     fields: {
-      coefficient: q(D.dimensionless, 'sliding friction coefficient μ', { default: 0 }),
-      staticCoefficient: q(D.dimensionless, 'static friction coefficient μ_s (default μ, never below μ)'),
-      preload: q(D.force, 'contact preload normal force F_N0', { default: 0 }),
-      magneticLoading: q(D.forcePerCurrentSquared, 'magnetic contact loading k_N in F_N = F_N0 + k_N I²', { default: 0 }),
+      coefficient: q(D.dimensionless, within(0, 10), 'sliding friction coefficient μ', { default: 0, noun: 'a friction coefficient' }),
+      staticCoefficient: q(D.dimensionless, within(0, 10), 'static friction coefficient μ_s (default μ, never below μ)', { noun: 'a static friction coefficient' }),
+      preload: q(D.force, within(0, 1e8), 'contact preload normal force F_N0', { default: 0 }),
+      magneticLoading: q(D.forcePerCurrentSquared, within(0, 1), 'magnetic contact loading k_N in F_N = F_N0 + k_N I²', { default: 0 }),
     },
   },
   drag: {
@@ -164,9 +201,9 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     optional: true,
     description: 'gas drag ahead of the armature; absent = none',
     fields: {
-      gasDensity: q(D.density, 'gas density in the bore', { required: true }),
-      dragCoefficient: q(D.dimensionless, 'drag coefficient C_d', { required: true }),
-      boreArea: q(D.area, 'bore cross-section A_b', { required: true }),
+      gasDensity: q(D.density, within(0, 1e4), 'gas density in the bore', { required: true }),
+      dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d', { required: true, noun: 'a drag coefficient' }),
+      boreArea: q(D.area, within(0, 100), 'bore cross-section A_b', { required: true }),
     },
   },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
@@ -177,11 +214,11 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     optional: true,
     description: 'integration settings',
     fields: {
-      relTol: q(D.dimensionless, 'relative tolerance', { default: 1e-9 }),
-      endTime: q(D.time, 'end time (timeout)', { default: 0.1 }),
-      sampleInterval: q(D.time, 'waveform sample interval', { default: 1e-6 }),
-      currentFloor: q(D.current, 'stall current floor per module', { default: 1 }),
-      maxSteps: { kind: 'integer', default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
+      relTol: q(D.dimensionless, within(1e-13, 1e-3), 'relative tolerance', { default: 1e-9, noun: 'a relative tolerance' }),
+      endTime: q(D.time, positive(10), 'end time (timeout)', { default: 0.1 }),
+      sampleInterval: q(D.time, TIME, 'waveform sample interval (default 1 µs, or endTime / 2,000,000 when that is longer; 0 = event samples only)'),
+      currentFloor: q(D.current, positive(1e6), 'stall current floor per module', { default: 1 }),
+      maxSteps: { kind: 'integer', range: within(1, 100_000_000), default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
     },
   },
 };
@@ -200,9 +237,9 @@ export function fieldAt(path: string): Field | undefined {
       fields = field.fields;
       continue;
     }
-    if (!fields) return undefined;
-    field = fields[part];
-    if (!field) return undefined;
+    // own keys only: a path step such as "constructor" is a plain (unknown) name, not Object.prototype's
+    if (!fields || !Object.hasOwn(fields, part)) return undefined;
+    field = fields[part]!;
     fields = field.kind === 'section' ? field.fields : undefined;
     if (field.kind === 'list' && parts[k + 1] === undefined) return field;
   }
@@ -221,8 +258,8 @@ export function quantityPaths(prefix = '', fields: Record<string, Field> = SCENA
   for (const [key, field] of Object.entries(fields)) {
     const path = prefix ? `${prefix}.${key}` : key;
     if (field.kind === 'quantity' || field.kind === 'integer') out.push(path);
-    else if (field.kind === 'section') out.push(...quantityPaths(path, field.fields));
-    else if (field.kind === 'list') out.push(...quantityPaths(`${path}[n]`, field.item.fields));
+    else if (field.kind === 'section') for (const inner of quantityPaths(path, field.fields)) out.push(inner);
+    else if (field.kind === 'list') for (const inner of quantityPaths(`${path}[n]`, field.item.fields)) out.push(inner);
   }
   return out;
 }

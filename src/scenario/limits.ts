@@ -93,7 +93,7 @@ export function validateLimits(raw: unknown, path = 'limits'): Partial<Engineeri
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw new InputError(path, 'expected an object of thresholds');
   const out: Partial<EngineeringLimits> = {};
   for (const [key, value] of Object.entries(raw as Record<string, unknown>)) {
-    if (!(key in LIMIT_SOURCES)) throw new InputError(`${path}.${key}`, `unknown threshold; known: ${Object.keys(LIMIT_SOURCES).join(', ')}`);
+    if (!Object.hasOwn(LIMIT_SOURCES, key)) throw new InputError(`${path}.${key}`, `unknown threshold; known: ${Object.keys(LIMIT_SOURCES).join(', ')}`);
     if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0)
       throw new InputError(`${path}.${key}`, `expected a number greater than 0, got ${JSON.stringify(value)}`);
     if (key.endsWith('Fraction') && value > 1) throw new InputError(`${path}.${key}`, `expected a fraction within 0…1, got ${value}`);

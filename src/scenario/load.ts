@@ -2,16 +2,17 @@
  * Scenario files → Scenario (SI numbers, defaults filled in). Every problem a user can fix becomes an
  * InputError naming the JSON path, what was expected and what was found.
  */
-import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { InputError } from '../core/errors.js';
 import { QuantityError, toSI } from '../units/quantity.js';
 import { SCENARIO_FIELDS, type Field, type SectionField } from './fields.js';
 import type { Scenario } from './types.js';
-import { validateScenario } from './validate.js';
+import { defaultSampleInterval, validateScenario } from './validate.js';
 import { didYouMean } from './suggest.js';
-import { findJsonError } from './jsonError.js';
+import { MAX_JSON_DEPTH, findJsonError } from './jsonError.js';
 import { deriveFromGeometry } from './derive.js';
+import { nestingDepth, readScenarioSource, withoutByteOrderMark } from './source.js';
+import { rangeProblem } from './ranges.js';
 
 export { validateScenario } from './validate.js';
 export { dimensionOfPath } from './fields.js';
@@ -28,14 +29,7 @@ export interface LoadedScenario {
 }
 
 export function loadScenarioFile(file: string): LoadedScenario {
-  let source: string;
-  try {
-    source = readFileSync(file, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    throw new InputError('', code === 'ENOENT' ? 'no such file' : `cannot read the file (${code ?? 'error'})`, file);
-  }
-  return loadScenarioText(source, file);
+  return loadScenarioText(readScenarioSource(file), file);
 }
 
 export function loadScenarioText(source: string, file: string): LoadedScenario {
@@ -44,22 +38,38 @@ export function loadScenarioText(source: string, file: string): LoadedScenario {
   return { raw, scenario, source, sha256: createHash('sha256').update(source).digest('hex'), file };
 }
 
-/** JSON.parse with the position turned into line and column. */
-export function parseJson(source: string, file: string): Record<string, unknown> {
+/** Line and column (1-based) of an offset in a text, counted without copying the text. */
+function lineAndColumn(text: string, offset: number): { line: number; column: number } {
+  let line = 1;
+  let lineStart = 0;
+  for (let at = text.indexOf('\n'); at >= 0 && at < offset; at = text.indexOf('\n', at + 1)) {
+    line += 1;
+    lineStart = at + 1;
+  }
+  return { line, column: offset - lineStart + 1 };
+}
+
+/** JSON.parse with the position turned into line and column; a byte-order mark is not part of the JSON. */
+export function parseJson(text: string, file: string): Record<string, unknown> {
+  const source = withoutByteOrderMark(text);
   let value: unknown;
   try {
     value = JSON.parse(source);
   } catch {
-    const problem = findJsonError(source) ?? { offset: source.length, message: 'not valid JSON' };
-    const before = source.slice(0, problem.offset).split('\n');
-    const line = before.length;
-    const column = before[before.length - 1]!.length + 1;
-    throw new InputError(`line ${line}, column ${column}`, `malformed JSON (${problem.message})`, file);
+    throw jsonProblem(source, file, 'malformed JSON');
   }
+  // Values nested deeper than any scenario would overflow JSON.stringify and structuredClone downstream.
+  if (nestingDepth(value) > MAX_JSON_DEPTH) throw jsonProblem(source, file, 'JSON nested too deeply');
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
     throw new InputError('', 'expected a JSON object with the scenario keys (name, bank, feed, rails, armature)', file);
   }
   return value as Record<string, unknown>;
+}
+
+function jsonProblem(source: string, file: string, what: string): InputError {
+  const problem = findJsonError(source) ?? { offset: source.length, message: 'not valid JSON' };
+  const { line, column } = lineAndColumn(source, problem.offset);
+  return new InputError(`line ${line}, column ${column}`, `${what} (${problem.message})`, file);
 }
 
 /** Read a parsed scenario object: units → SI, defaults, dimension and range checks. */
@@ -95,9 +105,12 @@ function checkLoadKeys(raw: Record<string, unknown>, file?: string): void {
   for (const key of LAUNCH_ONLY_KEYS) if (raw[key] !== undefined) throw new InputError(key, why, file);
   const limits = raw.limits;
   if (typeof limits === 'object' && limits !== null) {
-    for (const key of LAUNCH_ONLY_LIMITS) if (key in limits) throw new InputError(`limits.${key}`, why.replace('key', 'limit'), file);
+    for (const key of LAUNCH_ONLY_LIMITS) if (Object.hasOwn(limits, key)) throw new InputError(`limits.${key}`, why.replace('key', 'limit'), file);
   }
 }
+
+/** Longest text read as a quantity ("450 uF"); a longer one is surely not one. */
+const MAX_QUANTITY_TEXT = 100;
 
 function describe(value: unknown): string {
   if (value === null) return 'null';
@@ -108,27 +121,40 @@ function describe(value: unknown): string {
 
 function readField(value: unknown, field: Field, path: string, file?: string): unknown {
   switch (field.kind) {
-    case 'quantity':
+    case 'quantity': {
+      if (typeof value === 'string' && value.length > MAX_QUANTITY_TEXT) {
+        throw new InputError(path, `expected ${field.dimension.noun} such as "450 uF", got a text of ${value.length} characters`, file);
+      }
+      let si: number;
       try {
-        return toSI(value, field.dimension);
+        si = toSI(value, field.dimension);
       } catch (error) {
         if (error instanceof QuantityError) throw new InputError(path, error.message, file);
         throw error;
       }
-    case 'integer':
+      const problem = rangeProblem(field, si);
+      if (problem) throw new InputError(path, problem, file);
+      return si;
+    }
+    case 'integer': {
       if (typeof value !== 'number' || !Number.isInteger(value)) {
         throw new InputError(path, `expected a whole number, got ${describe(value)}`, file);
       }
+      const problem = rangeProblem(field, value);
+      if (problem) throw new InputError(path, problem, file);
       return value;
+    }
     case 'raw':
       return value;
     case 'text':
       if (typeof value !== 'string') throw new InputError(path, `expected a text string, got ${describe(value)}`, file);
+      if (value.length > field.maxLength) throw new InputError(path, `expected a text of at most ${field.maxLength} characters, got ${value.length}`, file);
       return value;
     case 'section':
       return readSection(value, field, path, file);
     case 'list': {
       if (!Array.isArray(value)) throw new InputError(path, `expected an array, got ${describe(value)}`, file);
+      if (value.length > field.maxItems) throw new InputError(path, `expected at most ${field.maxItems} entries, got ${value.length}`, file);
       return value.map((item, n) => readSection(item, field.item, `${path}[${n}]`, file));
     }
   }
@@ -143,7 +169,8 @@ function readSection(value: unknown, section: SectionField, path: string, file?:
   const out: Record<string, unknown> = {};
   const known = Object.keys(section.fields);
   for (const key of Object.keys(object)) {
-    if (!(key in section.fields)) {
+    // own keys only: "constructor" or "__proto__" in a file are unknown keys like any other, never Object's
+    if (!Object.hasOwn(section.fields, key)) {
       const where = path ? `${path}.${key}` : key;
       const hint = didYouMean(key, known);
       throw new InputError(where, `unknown key${hint ? ` (did you mean "${hint}"?)` : ''}; expected one of ${known.filter((k) => k !== '$schema').join(', ')}`, file);
@@ -151,7 +178,7 @@ function readSection(value: unknown, section: SectionField, path: string, file?:
   }
   for (const [key, field] of Object.entries(section.fields)) {
     const where = path ? `${path}.${key}` : key;
-    const present = key in object && object[key] !== undefined;
+    const present = Object.hasOwn(object, key) && object[key] !== undefined;
     if (!present) {
       if (field.required) throw new InputError(where, `missing required key (${field.description})`, file);
       if ((field.kind === 'quantity' || field.kind === 'integer') && field.default !== undefined) out[key] = field.default;
@@ -218,6 +245,12 @@ function normalise(read: Record<string, unknown>): Scenario {
       magneticLoading: friction?.magneticLoading ?? 0,
     },
     drag: drag ? { gasDensity: drag.gasDensity!, dragCoefficient: drag.dragCoefficient!, boreArea: drag.boreArea! } : null,
-    solver: { ...sectionDefaults('solver'), ...(solver ?? {}) } as unknown as Scenario['solver'],
+    solver: solverOptions({ ...sectionDefaults('solver'), ...(solver ?? {}) }),
   };
+}
+
+/** The solver section with its one default that depends on another key: the sample interval follows the end time. */
+function solverOptions(given: Record<string, number | undefined>): Scenario['solver'] {
+  const endTime = given.endTime!;
+  return { ...given, sampleInterval: given.sampleInterval ?? defaultSampleInterval(endTime) } as Scenario['solver'];
 }

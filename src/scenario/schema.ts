@@ -2,7 +2,8 @@
  * The JSON Schema of scenario files, generated from the same field table the loader reads, so editors
  * complete and check exactly what railpulse accepts.
  */
-import { SCENARIO_FIELDS, type Field } from './fields.js';
+import { SCENARIO_FIELDS, type Field, type Range } from './fields.js';
+import { rangeText } from './ranges.js';
 
 type Schema = Record<string, unknown>;
 
@@ -12,18 +13,18 @@ function fieldSchema(field: Field): Schema {
   switch (field.kind) {
     case 'quantity':
       return {
-        description: `${field.description} — a number in SI (${field.dimension.display || 'dimensionless'}) or a string with a unit`,
-        anyOf: [{ type: 'number' }, { type: 'string', pattern: QUANTITY_PATTERN }],
+        description: `${field.description} — a number in SI (${field.dimension.display || 'dimensionless'}) or a string with a unit; plausible range ${rangeText(field)}`,
+        anyOf: [{ type: 'number', ...bounds(field.range) }, { type: 'string', pattern: QUANTITY_PATTERN, maxLength: 100 }],
         ...(field.default !== undefined ? { default: field.default } : {}),
       };
     case 'integer':
-      return { description: field.description, type: 'integer', minimum: 1, ...(field.default !== undefined ? { default: field.default } : {}) };
+      return { description: `${field.description}; ${rangeText(field)}`, type: 'integer', ...bounds(field.range), ...(field.default !== undefined ? { default: field.default } : {}) };
     case 'text':
-      return { description: field.description, type: 'string' };
+      return { description: field.description, type: 'string', maxLength: field.maxLength };
     case 'raw':
       return { description: field.description };
     case 'list':
-      return { description: field.description, type: 'array', minItems: 1, items: fieldSchema(field.item) };
+      return { description: field.description, type: 'array', minItems: 1, maxItems: field.maxItems, items: fieldSchema(field.item) };
     case 'section': {
       const object: Schema = {
         description: field.description,
@@ -35,6 +36,11 @@ function fieldSchema(field: Field): Schema {
       return field.optional ? { anyOf: [object, { type: 'null' }], description: field.description } : object;
     }
   }
+}
+
+/** A plausible range as JSON Schema bounds (plain numbers only: a string's unit is for railpulse to read). */
+function bounds(range: Range): Schema {
+  return { ...(range.minExclusive ? { exclusiveMinimum: range.min } : { minimum: range.min }), maximum: range.max };
 }
 
 export function scenarioSchema(): Schema {

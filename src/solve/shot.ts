@@ -37,6 +37,9 @@ const SAMPLES_PER_STEP = 4;
 const MAX_EVENTS = 10_000;
 /** First step of the first odex run, in units of the time scale (see lastStep in runShot). */
 const FIRST_STEP = 0.1;
+/** Restarts with a shorter first step after a step overflowed, and how much shorter each is. */
+const MAX_OVERFLOW_RETRIES = 8;
+const OVERFLOW_STEP_FACTOR = 1e-3;
 /** Step cap in units of the fastest loop time constant (see fastestDecay). */
 const STEP_CAP_DECAYS = 4;
 /**
@@ -128,6 +131,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   /** events that fired at the current instant: not to fire again at the restart point */
   let justFired = new Set<string>();
   let locatedCount = 0;
+  let overflowRetries = 0;
   while (outcome === null) {
     if (locatedCount > MAX_EVENTS) {
       throw new IntegrationError(`more than ${MAX_EVENTS} events by t = ${t} s; the shot does not settle`);
@@ -168,6 +172,11 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], dense?: Dense): boolean => {
       if (!dense) return true;
       steps++;
+      // a state that is no longer finite cannot be integrated further: stop here and report it (below)
+      if (!allFinite(yEnd)) {
+        blownUp = { t: tau * scale, y: expand(yEnd) };
+        return false;
+      }
       const tOld = tauOld * scale;
       const tNew = tau * scale;
       const stateAt = (time: number): number[] => {
@@ -300,6 +309,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     };
 
     reached = { t, y };
+    let blownUp: { t: number; y: number[] } | null = null;
     const solver = createSolver(dimension);
     solver.denseOutput = true;
     solver.relativeTolerance = relTol;
@@ -310,6 +320,17 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const result = solver.solve(rhs, t / scale, active.map((c) => y[c]!), endTime / scale, observer);
     evaluations += result.nEval;
     restarts++;
+    if (blownUp) {
+      // odex accepts a step whose error estimate is NaN, so a first step far too long for a fast mode that has just
+      // switched on can overflow: restart once more from the last finite step with a much shorter first step.
+      if (overflowRetries >= MAX_OVERFLOW_RETRIES) throw nonFinite(plant, (blownUp as { t: number; y: number[] }).t, reached);
+      overflowRetries++;
+      if (reached.t !== t) justFired = new Set();
+      t = reached.t;
+      y = reached.y.slice();
+      lastStep = Math.min(lastStep, FIRST_STEP) * OVERFLOW_STEP_FACTOR;
+      continue;
+    }
     if (result.outcome === OUTCOME_MAX_STEPS) {
       throw new IntegrationError(
         `integration stopped after ${stepBudget} steps (solver.maxSteps) at t = ${reached.t} s with I = ${observe(plant, reached.y, mode).current} A, x = ${reached.y[ix.position]} m, v = ${reached.y[ix.velocity]} m/s`,
@@ -358,9 +379,22 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
 
 const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;
 
+function allFinite(values: ArrayLike<number>): boolean {
+  for (let i = 0; i < values.length; i++) if (!Number.isFinite(values[i]!)) return false;
+  return true;
+}
+
 function checkFinite(y: number[], t: number): void {
-  if (y.every(Number.isFinite)) return;
+  if (allFinite(y)) return;
   throw new IntegrationError(`the state became non-finite at t = ${t} s`);
+}
+
+/** An integration failure: the state stopped being finite after `t`; the last finite state is shown. */
+function nonFinite(plant: Plant, t: number, last: { t: number; y: number[] }): IntegrationError {
+  const ix = plant.index;
+  return new IntegrationError(
+    `the state became non-finite (overflow) by t = ${t} s; last finite state at t = ${last.t} s: x = ${last.y[ix.position]} m, v = ${last.y[ix.velocity]} m/s, state [${last.y.join(', ')}]`,
+  );
 }
 
 function finish(
@@ -376,6 +410,9 @@ function finish(
   stats: Shot['stats'],
 ): Shot {
   const ix = plant.index;
+  if (!allFinite(q) || !Number.isFinite(plant.initialEnergy)) {
+    throw new IntegrationError(`the energy ledger became non-finite (overflow) by t = ${t} s, with the state [${y.join(', ')}]`);
+  }
   const e = ledger(plant, y, q);
   const losses = Object.fromEntries(LOSS_ORDER.map((k, n) => [k, e.losses[n]!])) as Losses;
   const velocity = y[ix.velocity]!;

@@ -5,9 +5,9 @@
 import { existsSync, mkdirSync, renameSync, rmSync, openSync, closeSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../core/errors.js';
-import { CSV_FILE, JSONL_FILE, MANIFEST_FILE, isMissingOrEmptyDir, readLines, rowIndex, studyIdentity, writeNewFileAtomic, type StudyManifest } from './output.js';
+import { CSV_FILE, JSONL_FILE, MANIFEST_FILE, forEachLine, isMissingOrEmptyDir, readLines, rowIndex, studyIdentity, writeNewFileAtomic, type StudyManifest } from './output.js';
 import { csvHeader, csvLine, rowLayout, type RowLayout } from './rows.js';
-import { readManifest } from './sweep.js';
+import { readManifest, shardPositions } from './sweep.js';
 
 export interface MergeSummary {
   outDir: string;
@@ -52,6 +52,58 @@ function advance(stream: Stream): void {
   stream.index = index;
 }
 
+/** Complete rows in a shard's points.jsonl (a row cut short by a kill is not one). */
+function completeRows(dir: string): number {
+  const path = join(dir, JSONL_FILE);
+  if (!existsSync(path)) return 0;
+  let rows = 0;
+  forEachLine(path, () => {
+    rows += 1;
+  });
+  return rows;
+}
+
+/** "3, 7, 11, … 99" for the indices a shard lacks (its rows are a prefix of its round-robin positions). */
+function missingList(first: number, step: number, from: number, to: number): string {
+  const shown: number[] = [];
+  for (let k = from; k < to && shown.length < 4; k += 1) shown.push(first + k * step);
+  const last = first + (to - 1) * step;
+  return to - from > shown.length ? `${shown.join(', ')}, … ${last}` : shown.join(', ');
+}
+
+/**
+ * Before anything is merged, say which shard lacks which points (a cancelled, failed or timed-out array task), and
+ * which shards of the split are not among the folders given: the user resubmits exactly those and merges again.
+ */
+function checkShardCoverage(dirs: readonly string[], manifests: readonly StudyManifest[]): void {
+  const problems: string[] = [];
+  const byIndex = new Map<number, string>();
+  let count: number | null = null;
+  manifests.forEach((manifest, i) => {
+    const shard = manifest.shard;
+    const dir = dirs[i]!;
+    if (!shard) return;
+    if (count !== null && shard.count !== count) throw new InputError(dir, `is shard ${shard.index} of ${shard.count}, the others are of ${count}; merge the shards of one split`);
+    count = shard.count;
+    const other = byIndex.get(shard.index);
+    if (other !== undefined) throw new InputError(dir, `is shard ${shard.index}/${shard.count} like ${other}; give each shard once`);
+    byIndex.set(shard.index, dir);
+    const positions = shardPositions(manifest.points, shard);
+    const rows = completeRows(dir);
+    if (rows < positions.length) {
+      problems.push(`shard ${shard.index}/${shard.count} (${dir}) has ${rows} of its ${positions.length} points, lacking ${positions.length - rows} (indices ${missingList(positions.first, positions.step, rows, positions.length)})`);
+    }
+  });
+  if (count !== null) {
+    const absent: number[] = [];
+    for (let index = 1; index <= count; index += 1) if (!byIndex.has(index)) absent.push(index);
+    if (absent.length > 0) problems.push(`shard${absent.length === 1 ? '' : 's'} ${absent.map((index) => `${index}/${count}`).join(', ')} ${absent.length === 1 ? 'is' : 'are'} not among the folders given`);
+  }
+  if (problems.length > 0) {
+    throw new InputError('merge', `${problems.join('; ')}. Finish them (run the same sweep command again, or resubmit those array tasks: a shard continues where it stopped) and merge again`);
+  }
+}
+
 export function merge(dirs: readonly string[], outDir: string): MergeSummary {
   if (dirs.length === 0) throw new InputError('merge', 'give the study directories to merge');
   const manifests = dirs.map((dir) => readManifest(dir));
@@ -62,6 +114,7 @@ export function merge(dirs: readonly string[], outDir: string): MergeSummary {
     }
   });
   const layout = layoutFromManifest(first, dirs[0]!);
+  checkShardCoverage(dirs, manifests);
   if (!isMissingOrEmptyDir(outDir)) throw new InputError('--out', `${outDir} exists and is not empty; railpulse never overwrites a study`);
   mkdirSync(outDir, { recursive: true });
 

@@ -76,7 +76,9 @@ export function makeSweepPlan(choices: SweepChoices): SweepPlan {
  */
 export function checkAxes(plan: SweepPlan, validate: (scenario: Scenario) => void): void {
   for (const axis of plan.design.axes) {
-    const values = plan.design.kind === 'grid' ? axis.values : [axis.min, axis.max];
+    // Each range check is an interval, so a range's ends decide for every value between them; a list's values
+    // are checked one by one (a list is as long as a command line).
+    const values = plan.design.kind === 'grid' && axis.kind === 'list' ? axis.values : [axis.min, axis.max];
     const probe = structuredClone(plan.scenario);
     for (const value of values) {
       setPath(probe, axis.steps, value);

@@ -9,9 +9,9 @@
  * they are passed over.
  */
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors.js';
 import { parseJson, scenarioFromRaw } from '../scenario/load.js';
+import { readScenarioSource } from '../scenario/source.js';
 import { didYouMean } from '../scenario/suggest.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, QuantityError, toSI, type Dimension } from '../units/quantity.js';
@@ -70,12 +70,7 @@ function readQuantities<K extends string>(values: Record<string, unknown>, keys:
 }
 
 export function readSizingInput(file: string): SizingInput {
-  let source: string;
-  try {
-    source = readFileSync(file, 'utf8');
-  } catch (error) {
-    throw new InputError('', (error as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : 'cannot read the file', file);
-  }
+  const source = readScenarioSource(file);
   const raw = parseJson(source, file);
   const targetRaw = section(raw, 'target', file);
   const limitsRaw = section(raw, 'limits', file) ?? {};

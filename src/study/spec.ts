@@ -12,6 +12,7 @@ import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, toSI, type Dimension } from '../units/quantity.js';
 import { closestPath, formatPath, getPath, listNumericPaths, parsePath, type PathStep } from '../scenario/paths.js';
+import { largest, smallest } from '../core/extrema.js';
 
 export type AxisKind = 'list' | 'linear' | 'log';
 
@@ -33,6 +34,8 @@ export interface Axis {
 export type DimensionOf = (path: string) => Dimension | undefined;
 
 const OPTION = '--vary';
+/** Most values of one --vary range (a grid of such axes is bounded again by MAX_POINTS in design.ts). */
+export const MAX_AXIS_VALUES = 1_000_000;
 
 function fail(problem: string): never {
   throw new InputError(OPTION, problem);
@@ -54,7 +57,7 @@ export function parseVary(argument: string, scenario: Scenario, dimensionOf: Dim
   if (integer && values.some((value) => !Number.isInteger(value) || value < 1)) {
     fail(`${path}: a module count must be a whole number ≥ 1, got ${values.join(', ')}`);
   }
-  return { path, steps, spec, kind, values, min: Math.min(...values), max: Math.max(...values), integer };
+  return { path, steps, spec, kind, values, min: smallest(values), max: largest(values), integer };
 }
 
 /** Parse every `--vary`; a path given twice is an error. */
@@ -108,6 +111,7 @@ function parseSpec(path: string, spec: string, dimension: Dimension): { kind: Ax
   const stop = quantity(path, range[1]!, dimension);
   const count = Number(range[2]);
   if (!Number.isInteger(count) || count < 1) fail(`${path}: the count of a range must be a whole number ≥ 1, got "${range[2]}"`);
+  if (count > MAX_AXIS_VALUES) fail(`${path}: a range of ${count} values is more than ${MAX_AXIS_VALUES.toLocaleString('en-US')}; for a finer study sample the range (--design lhs --samples N)`);
   if (count > 1 && start === stop) fail(`${path}: the range ${spec} is empty (start equals stop)`);
   if (log && (start <= 0 || stop <= 0)) fail(`${path}: a log range needs start and stop > 0, got "${spec}"`);
   const values = Array.from({ length: count }, (_, i) => rangeValue(start, stop, count, i, log));

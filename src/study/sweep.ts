@@ -9,7 +9,7 @@ import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { InputError } from '../core/errors.js';
+import { InputError, withFileProblems } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import type { BatchContext, BatchRequest, BatchResult } from './batch.js';
 import type { Design } from './design.js';
@@ -17,6 +17,7 @@ import {
   CSV_FILE,
   JSONL_FILE,
   MANIFEST_FILE,
+  MANIFEST_FORMAT,
   forEachLine,
   isMissingOrEmptyDir,
   openPointsWriter,
@@ -61,6 +62,8 @@ export interface SweepSummary {
   points: number;
   /** rows found already written (resume) */
   resumedFrom: number;
+  /** the folder held this study already, so it was continued without --resume */
+  autoResumed: boolean;
   /** rows written by this run */
   ran: number;
   /** rows with an error (this run) */
@@ -88,9 +91,12 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
   const started = performance.now();
   const layout = rowLayout(plan.design.axes.map((axis) => axis.path), plan.scenario.bank.length);
   const positions = shardPositions(plan.design.count, plan.manifest.shard);
-  const resumedFrom = plan.resume ? resumeStudyDir(plan, layout, positions) : createStudyDir(plan, layout);
+  // A folder that holds this very study (a requeued or resubmitted cluster task, a second run of the same command)
+  // is continued, never refused and never overwritten; one that holds anything else is refused.
+  const autoResumed = !plan.resume && holdsSameStudy(plan);
+  const resumedFrom = plan.resume || autoResumed ? resumeStudyDir(plan, layout, positions) : createStudyDir(plan, layout);
   const remaining = positions.length - resumedFrom;
-  const summary: SweepSummary = { outDir: plan.outDir, points: positions.length, resumedFrom, ran: 0, failed: 0, complete: remaining === 0, interrupted: false, seconds: 0 };
+  const summary: SweepSummary = { outDir: plan.outDir, points: positions.length, resumedFrom, autoResumed, ran: 0, failed: 0, complete: remaining === 0, interrupted: false, seconds: 0 };
   if (remaining === 0) return summary;
 
   const requestedJobs = options.jobs ?? availableParallelism();
@@ -151,8 +157,9 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
     writer.close();
     await runner.close();
   }
-  summary.interrupted = options.signal?.aborted ?? false;
   summary.complete = resumedFrom + summary.ran === positions.length;
+  // a stop that came after the last batch was dispatched interrupted nothing
+  summary.interrupted = (options.signal?.aborted ?? false) && !summary.complete;
   summary.seconds = (performance.now() - started) / 1000;
   return summary;
 }
@@ -187,11 +194,28 @@ function checkPoint(probe: Scenario, steps: Parameters<typeof setPath>[1][], poi
   }
 }
 
+/** Whether the output folder holds a study with the same identity and shard as this one. */
+function holdsSameStudy(plan: SweepPlan): boolean {
+  if (isMissingOrEmptyDir(plan.outDir) || !existsSync(join(plan.outDir, MANIFEST_FILE))) return false;
+  let onDisk: StudyManifest;
+  try {
+    onDisk = readManifest(plan.outDir);
+  } catch {
+    return false;
+  }
+  return sameStudy(onDisk, plan.manifest);
+}
+
+function sameStudy(a: StudyManifest, b: StudyManifest): boolean {
+  return studyIdentity(a) === studyIdentity(b) && JSON.stringify(a.shard) === JSON.stringify(b.shard);
+}
+
 function createStudyDir(plan: SweepPlan, layout: RowLayout): number {
   if (!isMissingOrEmptyDir(plan.outDir)) {
-    throw new InputError('--out', `${plan.outDir} exists and is not empty; give another --out, or --resume to continue that study`);
+    const holds = existsSync(join(plan.outDir, MANIFEST_FILE)) ? 'holds a different study (scenario, --vary, design, seed or shard differ)' : 'exists and is not a study folder';
+    throw new InputError('--out', `${plan.outDir} ${holds}; give another --out`);
   }
-  mkdirSync(plan.outDir, { recursive: true });
+  withFileProblems(plan.outDir, () => mkdirSync(plan.outDir, { recursive: true }), 'cannot create the study folder');
   writeNewFileAtomic(join(plan.outDir, MANIFEST_FILE), `${JSON.stringify(plan.manifest, null, 2)}\n`);
   writeNewFileAtomic(join(plan.outDir, CSV_FILE), csvHeader(layout));
   writeNewFileAtomic(join(plan.outDir, JSONL_FILE), '');
@@ -201,17 +225,22 @@ function createStudyDir(plan: SweepPlan, layout: RowLayout): number {
 export function readManifest(dir: string): StudyManifest {
   const path = join(dir, MANIFEST_FILE);
   if (!existsSync(path)) throw new InputError(dir, `no ${MANIFEST_FILE} here; not a railpulse study directory`);
+  let manifest: unknown;
   try {
-    return JSON.parse(readFileSync(path, 'utf8')) as StudyManifest;
+    manifest = JSON.parse(readFileSync(path, 'utf8'));
   } catch {
     throw new InputError(path, 'is not valid JSON');
   }
+  if (typeof manifest !== 'object' || manifest === null || (manifest as StudyManifest).format !== MANIFEST_FORMAT) {
+    throw new InputError(path, `is not a railpulse study manifest (${MANIFEST_FORMAT})`);
+  }
+  return manifest as StudyManifest;
 }
 
 /** Check the study on disk is this study, cut any partly written row, and return how many rows are complete. */
 function resumeStudyDir(plan: SweepPlan, layout: RowLayout, positions: { first: number; step: number; length: number }): number {
   const onDisk = readManifest(plan.outDir);
-  if (studyIdentity(onDisk) !== studyIdentity(plan.manifest) || JSON.stringify(onDisk.shard) !== JSON.stringify(plan.manifest.shard)) {
+  if (!sameStudy(onDisk, plan.manifest)) {
     throw new InputError('--resume', `${plan.outDir} holds a different study (scenario, --vary, design, seed or shard differ)`);
   }
   const jsonPath = join(plan.outDir, JSONL_FILE);

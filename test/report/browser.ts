@@ -7,7 +7,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 
-export const CHROMIUM_PATH = '/usr/bin/chromium';
+import { CHROMIUM_ARGS, CHROMIUM_PATH } from '../setup/browser.js';
+
+export { CHROMIUM_PATH };
 
 export interface BrowserSession {
   context: BrowserContext;
@@ -20,15 +22,7 @@ export async function launchBrowser(): Promise<BrowserSession> {
     executablePath: CHROMIUM_PATH,
     headless: true,
     viewport: { width: 1200, height: 900 },
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-      '--disable-quic',
-    ],
+    args: CHROMIUM_ARGS,
   });
   return {
     context,

@@ -93,7 +93,7 @@ describe('study commands', () => {
     const infeasible = join(root, 'size-bad.json');
     writeFileSync(infeasible, JSON.stringify({ ...raw, target: { muzzleVelocity: '80 m/s' }, limits: { modulesPerGroup: 1, chargeVoltage: '3 kV' } }));
     const bad = run(['size', infeasible, '--out', join(root, 'never.json')]);
-    expect(bad.status).toBe(1);
+    expect(bad.status).toBe(3); // no feasible design: its own exit code (README, exit codes)
     expect(bad.stderr).toMatch(/no design reaches 80\.00 m\/s within the limits; binding: chargeVoltage/);
     expect(existsSync(join(root, 'never.json'))).toBe(false);
 

@@ -1,4 +1,4 @@
-import { appendFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { appendFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -84,8 +84,8 @@ describe('sweep', () => {
     expect(read(out, 'points.csv')).toBe(referenceCsv);
 
     // a shard missing, or given twice: refused, naming the index
-    expect(() => merge([dirs[0]!, dirs[1]!], join(root, 'merged-missing'))).toThrow(/point 2 is in none of the shards/);
-    expect(() => merge([dirs[0]!, dirs[1]!, dirs[2]!, dirs[1]!], join(root, 'merged-twice'))).toThrow(/point 1 is also in/);
+    expect(() => merge([dirs[0]!, dirs[1]!], join(root, 'merged-missing'))).toThrow(/shard 3\/3 is not among the folders given/);
+    expect(() => merge([dirs[0]!, dirs[1]!, dirs[2]!, dirs[1]!], join(root, 'merged-twice'))).toThrow(/is shard 2\/3 like/);
     // a different study is refused
     const other = plan({ vary: ['armature.mass=10g,15g'], shard: { index: 1, count: 2 } });
     await runSweep(other, { jobs: 1, validate });
@@ -108,11 +108,21 @@ describe('sweep', () => {
     expect(await runSweep({ ...p, resume: true }, { jobs: 2 })).toMatchObject({ ran: 0, complete: true });
   });
 
-  it('refuses to write into a non-empty directory without --resume, and refuses to resume another study', async () => {
+  it('continues a folder that holds the same study without --resume, and refuses a folder that holds anything else', async () => {
     const p = plan();
     await runSweep(p, { jobs: 1, signal: AbortSignal.abort() });
     appendFileSync(join(p.outDir, 'points.jsonl'), '');
-    await expect(runSweep(p, { jobs: 1 })).rejects.toThrow(/exists and is not empty/);
+    // the same study (a requeued cluster task, the same command run again): continued, every point once
+    const again = await runSweep(p, { jobs: 1 });
+    expect(again).toMatchObject({ autoResumed: true, complete: true });
+    expect(read(p.outDir, 'points.jsonl')).toBe(reference);
+    // another study in that folder, with or without --resume: refused
+    const otherPlain = makeSweepPlan({ scenario: loaded.scenario, source: { file: TWO_GROUP_FILE, sha256: loaded.sha256 }, vary: ['armature.mass=1g,2g'], dimensionOf: dimensionOfPath, out: p.outDir });
+    await expect(runSweep(otherPlain, { jobs: 1 })).rejects.toThrow(/holds a different study/);
+    const stranger = join(root, 'not-a-study');
+    mkdirSync(stranger);
+    writeFileSync(join(stranger, 'notes.txt'), 'mine');
+    await expect(runSweep({ ...plan(), outDir: stranger }, { jobs: 1 })).rejects.toThrow(/exists and is not a study folder/);
     const other = makeSweepPlan({ scenario: loaded.scenario, source: { file: TWO_GROUP_FILE, sha256: loaded.sha256 }, vary: ['armature.mass=1g,2g'], dimensionOf: dimensionOfPath, out: p.outDir, resume: true });
     await expect(runSweep(other, { jobs: 1 })).rejects.toThrow(/holds a different study/);
   });
