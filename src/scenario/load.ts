@@ -228,7 +228,7 @@ function normalise(read: Record<string, unknown>): Scenario {
       friction: { coefficient: 0, staticCoefficient: 0, preload: 0, magneticLoading: 0 },
       drag: null,
       load: { kind: 'short', inductance: load.inductance, resistance: load.resistance },
-      solver: { ...sectionDefaults('solver'), ...(solver ?? {}) } as unknown as Scenario['solver'],
+      solver: solverOptions({ ...sectionDefaults('solver'), ...(solver ?? {}) }),
     };
   }
   return {
