@@ -52,7 +52,7 @@ function simulate(loaded: LoadedScenario, flags: RunFlags): AssessedShot {
     process.stdout.write(JSON.stringify(resultsJson(assessed), null, 2) + '\n');
     if (reportPath) process.stderr.write(`report: ${reportPath}\n`);
   } else {
-    process.stdout.write(shotSummary(loaded.scenario, shot, assessed.assessment.warnings, assessed.assessment.checks));
+    process.stdout.write(shotSummary(loaded.scenario, shot, assessed.assessment));
     if (reportPath) process.stdout.write(`report: ${reportPath}\n`);
   }
   return assessed;

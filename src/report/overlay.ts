@@ -8,7 +8,7 @@ import { interpolateSorted } from '../core/interpolate.js';
 import type { Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
-import { formatPlain, formatQuantity, scaleFor, NO_VALUE, type Scale } from './format.js';
+import { formatExact, formatNumber, formatPercent, formatQuantity, formatWithUncertainty, scaleFor, NO_VALUE, type Scale } from '../units/format.js';
 import { axis, baseLayout, maxAbs, round6, type PlotFigure } from './plots.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
@@ -171,14 +171,14 @@ export function overlayFigures(waveforms: Waveforms | null, overlay: OverlayInpu
   return figures;
 }
 
-function comparisonRow(key: string, label: string, c: Comparison | undefined, unit: string, prefix = true): string {
+function comparisonRow(key: string, label: string, c: Comparison | undefined, unit: string): string {
   if (!c) return '';
-  const q = (v: number): string => formatQuantity(v, unit, { prefix });
+  const q = (v: number): string => formatQuantity(v, unit);
   return `<tr data-goodness="${key}" data-error="${c.error}"><td>${escapeHtml(label)}</td><td class="num">${q(c.model)}</td><td class="num">${q(c.measured)}</td><td class="num">${q(c.error)}</td><td class="num">${formatRelative(c.relativeError)}</td></tr>`;
 }
 
 function formatRelative(fraction: number): string {
-  return Number.isFinite(fraction) ? `${formatPlain(fraction * 100, 3)}\u00A0%` : NO_VALUE;
+  return formatPercent(fraction);
 }
 
 function goodnessTable(goodness: GoodnessOfFit): string {
@@ -194,7 +194,7 @@ function goodnessTable(goodness: GoodnessOfFit): string {
     comparisonRow('peakCurrent', 'Peak current', goodness.peakCurrent, 'A') +
     comparisonRow('peakCurrentTime', 'Time of peak current', goodness.peakCurrentTime, 's') +
     comparisonRow('exitTime', 'Exit time', goodness.exitTime, 's') +
-    comparisonRow('muzzleVelocity', 'Muzzle velocity', goodness.muzzleVelocity, 'm/s', false);
+    comparisonRow('muzzleVelocity', 'Muzzle velocity', goodness.muzzleVelocity, 'm/s');
   const arrivals = goodness.arrivalTimeErrors
     ? `<p class="note" data-goodness="arrivalTimes">Probe arrival-time errors (model − measured): ${goodness.arrivalTimeErrors.map((e) => (e === null ? 'not reached' : formatQuantity(e, 's'))).join(', ')}.</p>`
     : '';
@@ -202,7 +202,7 @@ function goodnessTable(goodness: GoodnessOfFit): string {
   return `<table class="goodness"><thead><tr><th>Goodness of fit</th><th class="num">Model</th><th class="num">Measured</th><th class="num">Error (model − measured)</th><th class="num">Relative</th></tr></thead><tbody>${rows}</tbody></table>${arrivals}`;
 }
 
-const short = (x: number): string => String(Number(x.toPrecision(6)));
+const short = (x: number): string => formatExact(x, '');
 
 function columnsTable(measurement: Measurement): string {
   const rows = measurement.columns
@@ -216,8 +216,8 @@ function fitTables(fit: OverlayFit): string {
   const rows = names
     .map((name) => {
       const p = fit.parameters[name]!;
-      const u = Number.isFinite(p.uncertainty) ? formatQuantity(p.uncertainty, p.unit) : 'on a bound';
-      return `<tr data-parameter="${escapeHtml(name)}" data-value="${p.value}"><td class="path">${escapeHtml(name)}</td><td class="num">${formatQuantity(p.value, p.unit)}</td><td class="num">\u00B1\u00A0${u}</td><td class="num">${formatQuantity(p.initial, p.unit)}</td></tr>`;
+      const fitted = Number.isFinite(p.uncertainty) ? formatWithUncertainty(p.value, p.uncertainty, p.unit) : `${formatQuantity(p.value, p.unit)} (on a bound)`;
+      return `<tr data-parameter="${escapeHtml(name)}" data-value="${p.value}"><td class="path">${escapeHtml(name)}</td><td class="num">${fitted}</td><td class="num">${formatQuantity(p.initial, p.unit)}</td></tr>`;
     })
     .join('');
   const r = (a: string, b: string): number => (a === b ? 1 : fit.correlations[`${a}|${b}`] ?? fit.correlations[`${b}|${a}`] ?? NaN);
@@ -228,8 +228,8 @@ function fitTables(fit: OverlayFit): string {
           .join('')}</tbody></table>`
       : '';
   const warnings = fit.warnings.length ? `<ul class="fit-warnings">${fit.warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>` : '';
-  return `<h3>Calibration</h3><p class="note">Bounded least squares on the measured signals (each residual divided by its noise); one standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations; χ²/ν = ${formatPlain(fit.residual.chiSquaredReduced, 4)}.</p>
-<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted</th><th class="num">Uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}`;
+  return `<h3>Calibration</h3><p class="note">Bounded least squares on the measured signals (each residual divided by its noise); one standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations; χ²/ν = ${formatNumber(fit.residual.chiSquaredReduced)}.</p>
+<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted value \u00B1 standard uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}`;
 }
 
 /** The page section; `figures` are those of overlayFigures, drawn by the report's render script. */

@@ -160,9 +160,11 @@ function normalise(read: Record<string, unknown>): Scenario {
     );
   };
   const drag = (read.drag as Record<string, number> | null | undefined) ?? null;
+  const record = read.record as Record<string, string> | null | undefined;
   return {
     name: read.name as string,
     description: (read.description as string | undefined) ?? '',
+    ...(record ? { record: { ...record } } : {}),
     bank,
     feed: read.feed as unknown as Scenario['feed'],
     rails: { ...(read.rails as Record<string, unknown>), resistanceGradient: (read.rails as Record<string, number>).resistanceGradient ?? 0 } as unknown as Scenario['rails'],

@@ -30,7 +30,7 @@ import {
 import { setPath } from '../scenario/paths.js';
 import { makeWorkerPool, type PointRunner } from './pool.js';
 import { silentProgress, type ProgressSink } from './progress.js';
-import { csvHeader, csvLine, rowLayout, type RowLayout } from './rows.js';
+import { csvHeader, csvLine, studyLayout, type RowLayout } from './rows.js';
 
 export interface SweepPlan {
   /** the base scenario, SI, parsed once in the main thread */
@@ -86,7 +86,7 @@ export function defaultWorkerUrl(): URL {
 
 export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Promise<SweepSummary> {
   const started = performance.now();
-  const layout = rowLayout(plan.design.axes.map((axis) => axis.path), plan.scenario.bank.length);
+  const layout = studyLayout(plan.scenario, plan.design.axes.map((axis) => axis.path));
   const positions = shardPositions(plan.design.count, plan.manifest.shard);
   const resumedFrom = plan.resume ? resumeStudyDir(plan, layout, positions) : createStudyDir(plan, layout);
   const remaining = positions.length - resumedFrom;
