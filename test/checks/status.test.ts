@@ -5,6 +5,7 @@
 import { readdirSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { statusOf, worse } from '../../src/checks/assess.js';
+import { checkIdsFor } from '../../src/checks/shotChecks.js';
 import { shotSummary } from '../../src/output/summary.js';
 import { resultsJson, shoot } from '../../src/pipeline/shoot.js';
 import { shotRecordHtml } from '../../src/pipeline/record.js';
@@ -39,6 +40,10 @@ describe.each(DEMOS)('demo %s: the summary, --json, the record and the index agr
 
   it('the assessment is the worst of its own checks and warnings', () => {
     expect(status.verdict).toBe(worst);
+  });
+
+  it('a study of it has a verdict column for exactly the checks a shot has', () => {
+    expect(checkIdsFor(assessed.scenario)).toEqual(checks.map((c) => c.id));
   });
 
   it('the terminal summary states it and lists every check', () => {
