@@ -11,7 +11,7 @@ import { formatChange, formatPercent, formatPercentagePoints, formatQuantity, NO
 import { scenarioColour } from './compare-plots.js';
 import type { ReportCheck } from './embedded.js';
 import { escapeHtml } from './escape.js';
-import { groupBySection, inputRows, keyInSection, type Leaf } from './inputs.js';
+import { groupBySection, inputRows, keyInSection, unwrittenSource, type Leaf } from './inputs.js';
 import { sectionTitle, usedCell } from './tables.js';
 
 export interface ComparedEntryView {
@@ -163,6 +163,8 @@ export interface ComparedInputCell {
   present: boolean;
   written: Leaf | undefined;
   si: Leaf | undefined;
+  /** computed from geometry (shown to four significant digits), not given */
+  computed?: boolean;
 }
 
 export interface ComparedInputRow {
@@ -180,13 +182,13 @@ function comparisonKey(value: Leaf | undefined): string {
 
 /** One row per scenario path found in any entry, in order of first appearance. */
 export function comparedInputRows(entries: ReadonlyArray<Pick<ComparedEntryView, 'scenarioRaw' | 'scenario'>>): ComparedInputRow[] {
-  const perEntry = entries.map((e) => new Map(inputRows(e.scenarioRaw, e.scenario).map((row) => [row.path, row])));
+  const perEntry = entries.map((e) => new Map(inputRows(e.scenarioRaw, e.scenario).map((row) => [row.path, { ...row, computed: row.written === undefined && unwrittenSource(row.path, e.scenario, e.scenarioRaw) === 'geometry' }])));
   const order: string[] = [];
   const seen = new Set<string>();
   for (const rows of perEntry) for (const path of rows.keys()) if (!seen.has(path)) (seen.add(path), order.push(path));
   return order.map((path) => {
     const found = perEntry.map((rows) => rows.get(path));
-    const cells = found.map((row) => ({ present: row !== undefined, written: row?.written, si: row?.si }));
+    const cells = found.map((row) => ({ present: row !== undefined, written: row?.written, si: row?.si, ...(row?.computed ? { computed: true } : {}) }));
     const keys = found.map((row) => (row === undefined ? '\u0000absent' : comparisonKey(row.si !== undefined ? row.si : row.written)));
     return { path, unit: found.find((row) => row)?.unit ?? '', cells, differs: new Set(keys).size > 1 };
   });
@@ -199,7 +201,7 @@ function leafText(value: Leaf | undefined): string {
 function inputCells(c: ComparedInputCell, unit: string): string {
   if (!c.present) return '<td class="absent" colspan="2">not in this scenario</td>';
   const written = c.written === undefined ? '<td class="default">default</td>' : `<td class="path">${escapeHtml(leafText(c.written))}</td>`;
-  return `${written}${usedCell(c.si, c.written, unit)}`;
+  return `${written}${usedCell(c.si, c.written, unit, '', c.computed ?? false)}`;
 }
 
 export function inputsSection(entries: ReadonlyArray<ComparedEntryView>, names: string[]): string {

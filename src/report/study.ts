@@ -58,7 +58,7 @@ function varyList(manifest: StudyDescription): string {
   return manifest.vary
     .map((axis) => {
       const unit = dimensionOfPath(axis.path);
-      return `<li><code>${escapeHtml(axis.path)}</code> = <code>${escapeHtml(axis.spec)}</code>${unit ? ` <span class="note">(${escapeHtml(unit.noun)})</span>` : ''}</li>`;
+      return `<li><code>${escapeHtml(axis.path)}</code> = <code>${escapeHtml(axis.spec)}</code>${unit ? ` <span class="note">\u2014 ${escapeHtml(unit.noun)}</span>` : ''}</li>`;
     })
     .join('');
 }

@@ -6,7 +6,7 @@
 import type { Scenario } from '../scenario/types.js';
 import type { ShotEvent, ShotResults } from '../solve/types.js';
 import { checkFigures, isHazardCheck, verdictLabel } from '../output/verdicts.js';
-import { columnFormatter, formatExact, formatPercent, NO_VALUE } from '../units/format.js';
+import { columnFormatter, formatExact, formatPercent, formatQuantity, NO_VALUE } from '../units/format.js';
 import type { ReportCheck, ReportProvenance } from './embedded.js';
 import { escapeHtml } from './escape.js';
 import { groupBySection, inputRows, keyInSection, unwrittenSource, type InputRow, type Leaf } from './inputs.js';
@@ -106,9 +106,13 @@ function writtenCell(value: Leaf | undefined, unwritten: keyof typeof UNWRITTEN_
   return `<td class="path">${escapeHtml(typeof value === 'string' ? value : JSON.stringify(value))}</td>`;
 }
 
-/** The used-value cell: numbers right-aligned in SI; text the model used as written is not repeated. */
-export function usedCell(value: Leaf | undefined, written: Leaf | undefined, unit: string, path = ''): string {
+/**
+ * The used-value cell: numbers right-aligned in SI (exactly as given; a figure computed from geometry to the same
+ * four significant digits as every computed figure); text the model used as written is not repeated.
+ */
+export function usedCell(value: Leaf | undefined, written: Leaf | undefined, unit: string, path = '', computed = false): string {
   if (value === undefined && typeof written === 'string' && /(^|\.)material$/.test(path)) return '<td class="note">its values, listed in this section</td>';
+  if (typeof value === 'number' && computed) return `<td class="num">${formatQuantity(value, unit)}</td>`;
   if (typeof value === 'number') return `<td class="num">${usedValueText(value, unit)}</td>`;
   if (typeof value === 'string' && value === written) return '<td class="note">as written</td>';
   return `<td>${usedValueText(value, unit)}</td>`;
@@ -148,8 +152,8 @@ export function sectionTitle(section: string, scenario: Pick<Scenario, 'bank'>):
 }
 
 function inputRowHtml(row: InputRow, section: string, scenario: Scenario, scenarioRaw: unknown): string {
-  const written = writtenCell(row.written, row.written === undefined ? unwrittenSource(row.path, scenario, scenarioRaw) : 'default');
-  return `<tr data-path="${escapeHtml(row.path)}"><td class="key">${escapeHtml(keyInSection(row.path, section))}</td>${written}${usedCell(row.si, row.written, row.unit, row.path)}</tr>`;
+  const source = row.written === undefined ? unwrittenSource(row.path, scenario, scenarioRaw) : 'default';
+  return `<tr data-path="${escapeHtml(row.path)}"><td class="key">${escapeHtml(keyInSection(row.path, section))}</td>${writtenCell(row.written, source)}${usedCell(row.si, row.written, row.unit, row.path, source === 'geometry')}</tr>`;
 }
 
 export function inputsSection(scenarioRaw: unknown, scenario: Scenario): string {
