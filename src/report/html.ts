@@ -173,15 +173,21 @@ function plotsSection(figures: PlotFigure[], results: ShotResults, hasWaveforms:
   return `<section id="plots"><h2>Waveforms and energy</h2>${note}\n${blocks}\n</section>`;
 }
 
-/** Draw every figure; mark the body when all are drawn (tests and printing wait for it). */
+/**
+ * Draw every figure once the page has painted (the safety banner, the status and the figures show at once, the plots
+ * follow); mark the body when all are drawn (tests and printing wait for it).
+ */
 const RENDER_SCRIPT = `${DATE_SCRIPT}
 (function () {
   var figures = JSON.parse(document.getElementById('railpulse-plots').textContent);
   var config = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ['select2d', 'lasso2d'],
     toImageButtonOptions: { format: 'png', scale: 2 } };
-  var drawn = figures.map(function (f) { return Plotly.newPlot(f.id, f.data, f.layout, config); });
-  Promise.all(drawn).then(function () { document.body.setAttribute('data-plots', 'rendered'); },
-    function (error) { document.body.setAttribute('data-plots', 'failed'); console.error(error); });
+  function draw() {
+    var drawn = figures.map(function (f) { return Plotly.newPlot(f.id, f.data, f.layout, config); });
+    Promise.all(drawn).then(function () { document.body.setAttribute('data-plots', 'rendered'); },
+      function (error) { document.body.setAttribute('data-plots', 'failed'); console.error(error); });
+  }
+  requestAnimationFrame(function () { setTimeout(draw, 0); });
   // Paper is narrower than a screen: fit the plots to the printed page, and back afterwards.
   function resizeAll() { figures.forEach(function (f) { Plotly.Plots.resize(document.getElementById(f.id)); }); }
   window.addEventListener('beforeprint', resizeAll);

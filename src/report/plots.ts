@@ -206,7 +206,8 @@ function ledgerFigure(waveforms: Waveforms, initial: number, decimate: DecimateO
     parts,
     'J',
     'Energy',
-    decimate,
+    // ten stacked areas: a thousand points each is all a plot a thousand pixels wide shows, and a third of the work
+    { target: 1000, max: 1500, ...decimate },
     marks,
   );
   // Stacked areas read best with fills that differ more than line colours do.
