@@ -84,6 +84,10 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
     lines.push('warnings:');
     for (const w of assessment.warnings) lines.push(`  ! ${w.message}`);
   }
+  lines.push(
+    'before any work on the bank: disconnect the charger, discharge through the dump resistors, short and ground every capacitor and keep the shorts on; ' +
+      'the full procedures and the discharge rule railpulse cites (NFPA 70, 2023 edition, Article 460, from memory) close the shot record; local codes and your institution\'s rules decide.',
+  );
   lines.push(`(${shot.stats.steps} steps, ${shot.stats.rhsEvaluations} evaluations, relative tolerance ${formatExact(shot.stats.relTol, '')})`);
   return forTerminal(lines.join('\n')) + '\n';
 }
