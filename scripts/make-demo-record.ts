@@ -1,6 +1,7 @@
 // Make the demo "measured" record scenarios/measured/bench-shot-17.csv: the bench demo simulated with a
-// slightly different L′ and contact resistance (what the fit should find), plus seeded scope noise, written as
-// a scope export with metadata lines, a raw channel name and kA units. Invented data for the demo only.
+// slightly different L′ and contact resistance (what the fit should find), plus seeded noise, written as our
+// invented lab's digitiser export: two lines of notes in our own words, a raw channel name and kA units.
+// Invented data for the demo only.
 import { readFileSync, writeFileSync } from 'node:fs';
 import { scenarioFromRaw } from '../src/scenario/load.js';
 import { runShot } from '../src/solve/shot.js';
@@ -16,13 +17,11 @@ let seed = 17;
 const uniform = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
 const gauss = () => Math.sqrt(-2 * Math.log(uniform() + 1e-12)) * Math.cos(2 * Math.PI * uniform());
 
-const lines = [
-  'Model,TRW-4 (fictional scope)',
-  'Record,bench shot 17, Tarnwick Pulsed Power Laboratory (fictional)',
-  'CH1,Rogowski coil, 1 V/kA',
-  '',
-  't [us],CH1,V_breech [V]',
+const DEMO_RECORD_NOTES = [
+  'Tarnwick Pulsed Power Laboratory (fictional) - bench rig B2 - shot 17 - invented demo data',
+  'Channel CH1 is the Rogowski coil output at 1 V per kA - V_breech is the breech voltage probe',
 ];
+const lines = [...DEMO_RECORD_NOTES, '', 't [us],CH1,V_breech [V]'];
 for (let k = 0; k < w.t.length; k++) {
   const t = w.t[k]!;
   // the scope keeps the first 600 µs, one sample per time: at an event instant, the value just after it
@@ -32,4 +31,4 @@ for (let k = 0; k < w.t.length; k++) {
   lines.push(`${(t * 1e6).toFixed(2)},${currentKiloamps.toFixed(4)},${breech.toFixed(3)}`);
 }
 writeFileSync('scenarios/measured/bench-shot-17.csv', lines.join('\n') + '\n');
-console.log(`wrote scenarios/measured/bench-shot-17.csv (${lines.length - 5} rows); muzzle velocity ${shot.results.muzzleVelocity.toFixed(1)} m/s`);
+console.log(`wrote scenarios/measured/bench-shot-17.csv (${lines.length - 4} rows); muzzle velocity ${shot.results.muzzleVelocity.toFixed(1)} m/s`);

@@ -1,18 +1,24 @@
 /**
- * Engineering checks of a shot: each compares one figure with a limit and says where the limit comes from.
- * Verdicts are advice for a designer, not certification. A check whose inputs are absent (no armature
- * cross-section, no rail geometry, …) is left out rather than passed. Hazard checks never "pass" a bank
- * above the DOE-HDBK-1092 thresholds: they warn, and defer to local codes and the institution's rules.
+ * Engineering checks of a shot: each compares one figure with a limit in a stated direction (the figure must stay
+ * at most, or at least, the limit) and says where the limit comes from. Verdicts are advice for a designer, not
+ * certification. A check whose inputs are absent (no armature cross-section, no rail geometry, …) is left out
+ * rather than passed; a figure with no limit to judge it against is "info". The capacitor hazard classes are
+ * classes, never passed: a bank in a class warns, one below every threshold is "info".
  */
 import type { ShotResults } from '../solve/types.js';
-import { STANDARD_GRAVITY } from '../units/format.js';
+import { formatPercent, formatQuantity, GN, STANDARD_GRAVITY } from '../units/format.js';
 import { fusionAction, meltingAction, temperatureAfterAction, DEFAULT_AMBIENT } from '../conductors/heating.js';
 import { inductanceGradientOf, type RailGeometry } from '../conductors/inductance.js';
 import type { Material } from '../conductors/materials.js';
 import { currentCarryingArea, penetrationDepth } from '../conductors/resistance.js';
 import { DEFAULT_LIMITS, LIMIT_SOURCES, type EngineeringLimits } from '../scenario/limits.js';
+import { bankHazard, HAZARD_CLASS_NAMES, HAZARD_SOURCE, SAFETY_CAUTION, type HazardClass } from './hazard.js';
 
-export type Verdict = 'pass' | 'warn' | 'fail';
+/** "info": a figure shown with no limit to judge it by (no payload limit given; a bank below every hazard class). */
+export type Verdict = 'pass' | 'warn' | 'fail' | 'info';
+
+/** How a figure is judged: it must stay at most (≤) or at least (≥) its limit. */
+export type CheckDirection = 'at-most' | 'at-least';
 
 export interface Check {
   id: string;
@@ -20,8 +26,17 @@ export interface Check {
   verdict: Verdict;
   /** the figure checked (SI, in `unit`) */
   value: number;
-  /** the boundary it is judged against (SI, in `unit`); null when there is none */
+  /**
+   * the boundary it is judged against (SI, in `unit`): crossing it gives the check's worst verdict (fail, or warn
+   * for a check that only warns); null when there is none
+   */
   limit: number | null;
+  /** at-most: the figure passes while ≤ limit; at-least: while ≥ limit; null for a hazard class (a classification) */
+  direction: CheckDirection | null;
+  /** where a banded check starts to warn, before it fails at `limit` */
+  warnAt?: number;
+  /** for the capacitor hazard checks: the class the bank is in, or null below the class's threshold */
+  hazardClass?: HazardClass | null;
   unit: string;
   source: string;
   note?: string;
@@ -85,9 +100,11 @@ function armatureAction(input: EngineeringInput, limits: EngineeringLimits, ambi
       verdict: band(value, limits.actionWarnFraction * limit, limit),
       value,
       limit,
+      direction: 'at-most',
+      warnAt: limits.actionWarnFraction * limit,
       unit: 'A²·s/m⁴',
       source: `adiabatic action to the onset of melting, g = γc/(ρ0α)·ln(1 + αΔT) [derived; agrees with Onderdonk's equation for copper]; warning at ${limits.actionWarnFraction} of it [${LIMIT_SOURCES.actionWarnFraction}]`,
-      note: `${((100 * value) / limit).toFixed(0)} % of the action to melting from ${ambient} °C; melting through would take a further ≈ ${fusionAction(material).toPrecision(2)} A²·s/m⁴ (latent heat, shown for information). Current crowding at the armature's rear edge heats some parts faster than this average.`,
+      note: `${formatPercent(value / limit)} of the action to melting from ${formatQuantity(ambient, '°C')}; melting through would take a further ${formatQuantity(fusionAction(material), 'A²·s/m⁴')} (latent heat, shown for information). Current crowding at the armature's rear edge heats some parts faster than this average.`,
     },
   ];
 }
@@ -114,8 +131,10 @@ function railHeating(input: EngineeringInput, limits: EngineeringLimits, ambient
       verdict: band(value, limits.railHeatingWarnFraction * limit, limit),
       value,
       limit,
+      direction: 'at-most',
+      warnAt: limits.railHeatingWarnFraction * limit,
       unit: 'K',
-      source: `adiabatic heating by the whole action integral through a layer √(2πρτ/μ0) = ${(penetrationDepth(material.resistivity, time) * 1e3).toPrecision(3)} mm deep behind the inner face (at most the rail), τ = ${(time * 1e3).toPrecision(3)} ms [derived]; limit: rise to melting; warning at ${limits.railHeatingWarnFraction} of it [${LIMIT_SOURCES.railHeatingWarnFraction}]`,
+      source: `adiabatic heating by the whole action integral through a layer √(2πρτ/μ0) = ${formatQuantity(penetrationDepth(material.resistivity, time), 'm')} deep behind the inner face (at most the rail), τ = ${formatQuantity(time, 's')} [derived]; limit: rise to melting; warning at ${limits.railHeatingWarnFraction} of it [${LIMIT_SOURCES.railHeatingWarnFraction}]`,
       note: value >= limit ? 'the estimate passes the melting point: beyond it the figure is not physical; the rail surface melts' : 'the velocity skin effect heats the rail surface behind a fast armature further; this does not cover it',
     },
   ];
@@ -131,10 +150,12 @@ function linearCurrentDensity(input: EngineeringInput, limits: EngineeringLimits
       title: 'Peak linear current density (peak current per metre of rail height)',
       verdict: band(value, limits.linearCurrentDensityWarn, limits.linearCurrentDensityFail),
       value,
-      limit: limits.linearCurrentDensityWarn,
+      limit: limits.linearCurrentDensityFail,
+      direction: 'at-most',
+      warnAt: limits.linearCurrentDensityWarn,
       unit: 'A/m',
-      source: `${LIMIT_SOURCES.linearCurrentDensityWarn}: warning from ${limits.linearCurrentDensityWarn / 1e6} kA/mm, failing from ${limits.linearCurrentDensityFail / 1e6} kA/mm`,
-      note: `${(value / 1e6).toFixed(1)} kA/mm; above this band solid armatures tend to lose contact (transition) and rails to gouge`,
+      source: `${LIMIT_SOURCES.linearCurrentDensityWarn}: warning from ${formatQuantity(limits.linearCurrentDensityWarn / 1e6, 'kA/mm')}, failing from ${formatQuantity(limits.linearCurrentDensityFail / 1e6, 'kA/mm')}`,
+      note: `${formatQuantity(value / 1e6, 'kA/mm')}; above this band solid armatures tend to lose contact (transition) and rails to gouge`,
     },
   ];
 }
@@ -151,8 +172,9 @@ function contactForce(input: EngineeringInput, limits: EngineeringLimits): Check
       verdict: value >= limit ? 'pass' : 'warn',
       value,
       limit,
+      direction: 'at-least',
       unit: 'N',
-      source: `preload + magnetic loading·I² against ${limits.contactForcePerAmpere / (STANDARD_GRAVITY * 1e-3)} gf per ampere of peak current [${LIMIT_SOURCES.contactForcePerAmpere}]`,
+      source: `preload + magnetic loading·I² against ${formatQuantity(limits.contactForcePerAmpere / (STANDARD_GRAVITY * 1e-3), 'gf/A')} (gram-force per ampere) of peak current [${LIMIT_SOURCES.contactForcePerAmpere}]`,
       note: 'a rule of the trade for solid armatures (total contact force); it does not apply to plasma armatures',
     },
   ];
@@ -171,12 +193,13 @@ function railSeparatingForce(input: EngineeringInput, limits: EngineeringLimits)
     {
       id: 'rail-separating-force',
       title: 'Rail separating force per metre at peak current',
-      verdict: limit !== null && value > limit ? 'fail' : 'pass',
+      verdict: limit === null ? 'info' : value > limit ? 'fail' : 'pass',
       value,
       limit,
+      direction: 'at-most',
       unit: 'N/m',
       source: "the larger of Ampère's force law μ0I²/(2πd) at the rails' centre distance [published: IUPAC Gold Book, ampere] and virtual work ½I²·dL′/ds on the high-frequency field solution [derived]",
-      note: `${limit === null ? 'no limit given; a figure for the containment designer. ' : ''}Ampère (thin conductors): ${ampere.toPrecision(3)} N/m${virtualWork === undefined ? '' : `; virtual work: ${virtualWork.toPrecision(3)} N/m`}`,
+      note: `${limit === null ? 'no limit given (limits.railSeparatingForcePerLength); a figure for the containment designer. ' : ''}Ampère (thin conductors): ${formatQuantity(ampere, 'N/m')}${virtualWork === undefined ? '' : `; virtual work: ${formatQuantity(virtualWork, 'N/m')}`}`,
     },
   ];
 }
@@ -202,16 +225,17 @@ function virtualWorkForce(geometry: RailGeometry, current: number): number | und
 function peakAcceleration(input: EngineeringInput, limits: EngineeringLimits): Check {
   const value = input.results.peakAcceleration;
   const limit = limits.peakAcceleration ?? null;
-  const inG = `${(value / STANDARD_GRAVITY).toPrecision(3)} g`;
+  const inG = formatQuantity(value / STANDARD_GRAVITY, GN);
   return {
     id: 'peak-acceleration',
     title: 'Peak acceleration against the payload limit',
-    verdict: limit !== null && value > limit ? 'fail' : 'pass',
+    verdict: limit === null ? 'info' : value > limit ? 'fail' : 'pass',
     value,
     limit,
+    direction: 'at-most',
     unit: 'm/s²',
-    source: limit === null ? 'no payload limit given' : 'payload limit given in the scenario',
-    note: limit === null ? `${inG}; no limit given` : `${inG} against ${(limit / STANDARD_GRAVITY).toPrecision(3)} g`,
+    source: limit === null ? 'no payload limit given (limits.peakAcceleration)' : 'payload limit given in the scenario (limits.peakAcceleration)',
+    note: limit === null ? `${inG}; no limit given, so no verdict` : `${inG} against ${formatQuantity(limit / STANDARD_GRAVITY, GN)}`,
   };
 }
 
@@ -225,49 +249,50 @@ function capacitorReversal(input: EngineeringInput, limits: EngineeringLimits): 
       verdict: value > limit ? 'fail' : 'pass',
       value,
       limit,
+      direction: 'at-most',
       unit: '1',
-      source: `rating ${(limit * 100).toPrecision(3)} % (bank[${index}].ratedReversal, else limits.ratedReversal; default ${DEFAULT_LIMITS.ratedReversal * 100} %, ${LIMIT_SOURCES.ratedReversal})`,
-      note: `${(value * 100).toFixed(1)} % of the charge voltage; capacitor life falls steeply above the rating — check the maker's data`,
+      source: `rating ${formatPercent(limit)} (bank[${index}].ratedReversal, else limits.ratedReversal; default ${formatPercent(DEFAULT_LIMITS.ratedReversal)}, ${LIMIT_SOURCES.ratedReversal})`,
+      note: `${formatPercent(value)} of the charge voltage; capacitor life falls steeply above the rating — check the maker's data`,
     };
   });
 }
 
-const SAFETY_CAUTION =
-  'Charged capacitor banks can kill. Follow local codes, your institution\'s electrical safety rules and licensed practice; discharge, short and ground the bank before work (e.g. banks over 600 V to 50 V or less within 5 minutes under OSHA / Cal/OSHA Title 8 §2893, NEC 460).';
-
 function capacitorHazards(input: EngineeringInput, limits: EngineeringLimits): Check[] {
-  const energy = input.bank.reduce((sum, g) => sum + 0.5 * g.count * g.capacitance * g.voltage * g.voltage, 0);
-  const voltage = input.bank.reduce((max, g) => Math.max(max, g.voltage), 0);
-  const source = `${LIMIT_SOURCES.shockVoltage}`;
-  const highVoltage = voltage >= limits.shockVoltage;
-  const shock = highVoltage && energy >= limits.shockEnergy;
-  const thermal = !highVoltage && energy > limits.thermalEnergy;
-  const arcFlash = highVoltage && energy >= limits.arcFlashEnergy;
-  const describe = `${voltage} V, ${energy.toPrecision(3)} J stored`;
+  const hazard = bankHazard(input.bank, limits);
+  const describe = `${formatQuantity(hazard.storedEnergy, 'J')} stored, charge voltage up to ${formatQuantity(hazard.maxChargeVoltage, 'V')}`;
+  const highVoltage = hazard.maxChargeVoltage >= limits.shockVoltage;
+  const shockClass = hazard.classes.find((c) => c === 'shock' || c === 'thermal') ?? null;
+  const arcFlash = hazard.classes.includes('arc-flash') ? 'arc-flash' : null;
+  const inClass = (hazardClass: HazardClass | null): string =>
+    hazardClass === null ? '' : `${HAZARD_CLASS_NAMES[hazardClass].toUpperCase()} (${describe}). `;
   return [
     {
       id: 'capacitor-shock-hazard',
       title: 'Capacitor bank shock / thermal hazard class',
-      verdict: shock || thermal ? 'warn' : 'pass',
-      value: energy,
+      verdict: shockClass ? 'warn' : 'info',
+      value: hazard.storedEnergy,
       limit: highVoltage ? limits.shockEnergy : limits.thermalEnergy,
+      direction: null,
+      hazardClass: shockClass,
       unit: 'J',
-      source: `${source}: shock hazard at ≥ ${limits.shockVoltage} V and ≥ ${limits.shockEnergy} J; thermal hazard below ${limits.shockVoltage} V above ${limits.thermalEnergy} J`,
-      note: shock
-        ? `SHOCK HAZARD (${describe}). ${SAFETY_CAUTION}`
-        : thermal
-          ? `THERMAL (burn) HAZARD (${describe}). ${SAFETY_CAUTION}`
-          : `below the DOE-HDBK-1092 thresholds (${describe}); local rules still apply.`,
+      source: `${HAZARD_SOURCE}: shock hazard at ≥ ${formatQuantity(limits.shockVoltage, 'V')} and ≥ ${formatQuantity(limits.shockEnergy, 'J')}; thermal hazard below ${formatQuantity(limits.shockVoltage, 'V')} above ${formatQuantity(limits.thermalEnergy, 'J')}`,
+      note: shockClass
+        ? `${inClass(shockClass)}${SAFETY_CAUTION}`
+        : `below the DOE-HDBK-1092 shock and thermal thresholds (${describe}); a shorted bank can still burn, and local rules still apply.`,
     },
     {
       id: 'capacitor-arc-flash-hazard',
       title: 'Capacitor bank arc-flash hazard class',
-      verdict: arcFlash ? 'warn' : 'pass',
-      value: energy,
+      verdict: arcFlash ? 'warn' : 'info',
+      value: hazard.storedEnergy,
       limit: limits.arcFlashEnergy,
+      direction: null,
+      hazardClass: arcFlash,
       unit: 'J',
-      source: `${source}: arc-flash hazard at ≥ ${limits.shockVoltage} V and ≥ ${limits.arcFlashEnergy} J`,
-      note: arcFlash ? `ARC-FLASH HAZARD (${describe}): arc-rated protection and an energised-work permit are typically required. ${SAFETY_CAUTION}` : `below the arc-flash threshold (${describe}).`,
+      source: `${HAZARD_SOURCE}: arc-flash hazard at ≥ ${formatQuantity(limits.shockVoltage, 'V')} and ≥ ${formatQuantity(limits.arcFlashEnergy, 'J')}`,
+      note: arcFlash
+        ? `${inClass(arcFlash)}Arc-rated protection and an energised-work permit are typically required. ${SAFETY_CAUTION}`
+        : `below the arc-flash threshold (${describe}); the shock class above still applies where it is met.`,
     },
   ];
 }

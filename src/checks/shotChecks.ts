@@ -27,6 +27,27 @@ export function shotChecks(scenario: Scenario, results: ShotResults): Check[] {
   });
 }
 
+/**
+ * The ids of every check a shot of this scenario can have, in the order the checks come: the columns of a study's
+ * verdicts. Which checks apply depends on what the scenario gives (geometry, materials, a solid armature), not on
+ * the shot, except where a varied path changes it (a varied arc drop can make the armature solid or not).
+ */
+export function checkIdsFor(scenario: Scenario, variedPaths: readonly string[] = []): string[] {
+  const geometry = scenario.rails.geometry;
+  const mayBeSolid = scenario.armature.arcDrop === 0 || variedPaths.includes('armature.arcDrop');
+  return [
+    ...(scenario.armature.derived && scenario.armature.material ? ['armature-action'] : []),
+    ...(geometry && scenario.rails.material ? ['rail-heating'] : []),
+    ...(geometry?.kind === 'rectangular' ? ['linear-current-density'] : []),
+    ...(mayBeSolid ? ['contact-force'] : []),
+    ...(geometry ? ['rail-separating-force'] : []),
+    'peak-acceleration',
+    ...scenario.bank.map((_, index) => `capacitor-reversal[${index}]`),
+    'capacitor-shock-hazard',
+    'capacitor-arc-flash-hazard',
+  ];
+}
+
 /** The `railsDerived` block of the JSON output, when the rails were given by geometry. */
 export type RailsDerivedJson = NonNullable<ReturnType<typeof railsDerivedJson>>;
 

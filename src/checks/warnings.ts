@@ -1,9 +1,11 @@
 /**
  * Warnings a person deciding whether to fire must see, read off a shot (no physics recomputed).
  */
+import { DEFAULT_LIMITS } from '../scenario/limits.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
 import { largest } from '../core/extrema.js';
+import { formatNumber, formatPercent, formatQuantity } from '../units/format.js';
 
 export interface ShotWarning {
   id: 'reversal' | 'stalled' | 'timeout' | 'ledger';
@@ -19,22 +21,22 @@ export function shotWarnings(scenario: Scenario, shot: Shot): ShotWarning[] {
   r.modules.forEach((m, g) => {
     if (m.reversal > 0) {
       const group = scenario.bank[g]!;
-      const rated = group.ratedReversal ?? scenario.limits?.ratedReversal ?? 0.2;
+      const rated = group.ratedReversal ?? scenario.limits?.ratedReversal ?? DEFAULT_LIMITS.ratedReversal;
       warnings.push({
         id: 'reversal',
-        message: `${m.label}: capacitor voltage reverses to ${(m.reversal * 100).toFixed(1)} % of its ${(group.voltage / 1e3).toFixed(2)} kV charge (rated ${(rated * 100).toFixed(0)} %)${m.reversal > rated ? ' — above the rating' : ''}`,
+        message: `${m.label}: capacitor voltage reverses to ${formatPercent(m.reversal)} of its ${formatQuantity(group.voltage, 'V')} charge (rated ${formatPercent(rated)})${m.reversal > rated ? ' — above the rating' : ''}`,
       });
     }
   });
   if (r.outcome === 'stalled') {
-    warnings.push({ id: 'stalled', message: `the armature stalled in the bore at ${(r.finalPosition * 100).toFixed(1)} cm (rails ${(scenario.rails.length * 100).toFixed(1)} cm)` });
+    warnings.push({ id: 'stalled', message: `the armature stalled in the bore at ${formatQuantity(r.finalPosition, 'm')} from the breech (rails ${formatQuantity(scenario.rails.length, 'm')})` });
   }
   if (r.outcome === 'timeout') {
-    warnings.push({ id: 'timeout', message: `the shot reached the end time ${(scenario.solver.endTime * 1e3).toFixed(3)} ms before exit or stall` });
+    warnings.push({ id: 'timeout', message: `the shot reached the end time ${formatQuantity(scenario.solver.endTime, 's')} before exit or stall` });
   }
   const worst = shot.waveforms ? largest(shot.waveforms.energy.residual, Math.abs) : Math.abs(r.energy.residual);
   if (worst > LEDGER_TOLERANCE * r.energy.initial) {
-    warnings.push({ id: 'ledger', message: `energy ledger residual ${(worst / r.energy.initial).toExponential(2)} of the stored energy exceeds ${LEDGER_TOLERANCE}` });
+    warnings.push({ id: 'ledger', message: `energy ledger residual ${formatNumber(worst / r.energy.initial)} of the stored energy exceeds ${formatNumber(LEDGER_TOLERANCE)}` });
   }
   return warnings;
 }

@@ -35,6 +35,7 @@ export function registerCompareCommand(program: Command): void {
           shot,
           sha256: l.sha256,
           warnings: assessment.warnings.map((w) => w.message),
+          checks: assessment.checks,
         }));
         const date = reportDate();
         const html = buildComparisonReport(entries, { toolVersion: TOOL_VERSION, nodeVersion: process.version, date });

@@ -16,7 +16,7 @@ import { reportDate } from '../output/provenance.js';
 import { writeNewFile } from '../output/write.js';
 import { DEFAULT_REPORT_DIR, recordShot } from '../pipeline/record.js';
 import { inFile, shoot, type AssessedShot } from '../pipeline/shoot.js';
-import { formatQuantity } from '../report/format.js';
+import { formatPercent, formatQuantity, formatWithUncertainty } from '../units/format.js';
 import { siUnitOfPath } from '../report/inputs.js';
 import type { OverlayFit, OverlayInput } from '../report/overlay.js';
 import { loadScenarioFile, loadScenarioText, type LoadedScenario } from '../scenario/load.js';
@@ -78,15 +78,15 @@ function goodnessLines(goodness: GoodnessOfFit): string[] {
   const lines: string[] = [];
   for (const [name, s] of Object.entries(goodness.signals)) {
     const unit = name === 'I' ? 'A' : 'V';
-    lines.push(`  RMS error ${name}: ${formatQuantity(s.rms, unit)} (${(s.relativeRms * 100).toPrecision(3)} % of the measured peak, ${s.points} samples)`);
+    lines.push(`  RMS error ${name}: ${formatQuantity(s.rms, unit)} (${formatPercent(s.relativeRms)} of the measured peak, ${s.points} samples)`);
   }
-  const row = (label: string, c: GoodnessOfFit['peakCurrent'], unit: string, prefix = true): void => {
-    if (c) lines.push(`  ${label}: model ${formatQuantity(c.model, unit, { prefix })}, measured ${formatQuantity(c.measured, unit, { prefix })}, error ${formatQuantity(c.error, unit, { prefix })}`);
+  const row = (label: string, c: GoodnessOfFit['peakCurrent'], unit: string): void => {
+    if (c) lines.push(`  ${label}: model ${formatQuantity(c.model, unit)}, measured ${formatQuantity(c.measured, unit)}, error ${formatQuantity(c.error, unit)}`);
   };
   row('peak current', goodness.peakCurrent, 'A');
   row('time of peak current', goodness.peakCurrentTime, 's');
   row('exit time', goodness.exitTime, 's');
-  row('muzzle velocity', goodness.muzzleVelocity, 'm/s', false);
+  row('muzzle velocity', goodness.muzzleVelocity, 'm/s');
   if (goodness.arrivalTimeErrors) lines.push(`  probe arrival-time errors: ${goodness.arrivalTimeErrors.map((e) => (e === null ? 'not reached' : formatQuantity(e, 's'))).join(', ')}`);
   const rule = goodness.samples;
   if (rule && rule.excluded.length > 0) {
@@ -146,8 +146,8 @@ function fitLines(fit: FitResult, seconds: number): string[] {
   for (const name of names) {
     const p = fit.parameters[name]!;
     const unit = siUnitOfPath(name);
-    const u = Number.isFinite(p.uncertainty) ? `± ${formatQuantity(p.uncertainty, unit, { digits: 2 })}` : '(on a bound)';
-    lines.push(`  ${name.padEnd(width)}  ${formatQuantity(p.value, unit, { digits: 5 })} ${u}   (initial ${formatQuantity(p.initial, unit, { digits: 5 })})`);
+    const fitted = Number.isFinite(p.uncertainty) ? formatWithUncertainty(p.value, p.uncertainty, unit) : `${formatQuantity(p.value, unit)} (on a bound)`;
+    lines.push(`  ${name.padEnd(width)}  ${fitted}   (initial ${formatQuantity(p.initial, unit)})`);
   }
   if (names.length > 1) {
     lines.push('correlations:');

@@ -81,7 +81,7 @@ function simulate(loaded: LoadedScenario, flags: RunFlags, announce = true): { a
     process.stdout.write(JSON.stringify(resultsJson(assessed), null, 2) + '\n');
     if (reportPath && announce) process.stderr.write(`report: ${reportPath}\n`);
   } else {
-    process.stdout.write(shotSummary(loaded.scenario, shot, assessed.assessment.warnings, assessed.assessment.checks));
+    process.stdout.write(shotSummary(loaded.scenario, shot, assessed.assessment));
     if (reportPath && announce) process.stdout.write(`report: ${reportPath}\n`);
   }
   return { assessed, reportPath };

@@ -1,7 +1,7 @@
 /**
  * Gauss–Legendre quadrature on [0, 1], used to integrate the loss channels, ∫I²dt and the impulse over each
- * integrator step on its dense output (the approach of "integrating callbacks" in the SciML ecosystem: a
- * quadrature of the interpolant instead of extra ODE states).
+ * integrator step on its dense output: after each accepted step the interpolant over that step is integrated by
+ * quadrature, so the ledger needs no extra ODE states and costs no extra right-hand-side evaluations.
  */
 
 export interface QuadratureRule {

@@ -43,8 +43,11 @@ export function shoot(loaded: LoadedScenario, options: ShootOptions = {}): Asses
   return { loaded, scenario, shot, assessment: assessShot(scenario, shot), provenance: provenanceOf(shot, loaded.sha256) };
 }
 
-/** The results object of `run --json`: the shot's figures (SI), its checks and, from geometry, railsDerived. */
+/**
+ * The results object of `run --json`: the shot's figures (SI), its checks, its status (the worst of the checks and
+ * the warnings, with the warnings themselves) and, from geometry, railsDerived.
+ */
 export function resultsJson(assessed: AssessedShot): Record<string, unknown> {
-  const { railsDerived, checks } = assessed.assessment;
-  return { ...assessed.shot.results, checks, ...(railsDerived ? { railsDerived } : {}) };
+  const { railsDerived, checks, status, warnings } = assessed.assessment;
+  return { ...assessed.shot.results, checks, status, warnings, ...(railsDerived ? { railsDerived } : {}) };
 }

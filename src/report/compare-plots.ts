@@ -7,7 +7,8 @@
 import type { Scenario } from '../scenario/types.js';
 import type { Shot, Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
-import { formatPercent, scaleFor, type Scale } from './format.js';
+import { plotlyText } from './escape.js';
+import { formatPercent, formatQuantity, scaleFor, type Scale } from '../units/format.js';
 import { axis, baseLayout, energyBudgetParts, maxAbs, round6, type PlotFigure } from './plots.js';
 
 export interface ComparedShotInput {
@@ -21,14 +22,7 @@ export const scenarioColour = (i: number): string => COLOURS[i % COLOURS.length]
 // Groups of one scenario share its colour and differ by dash.
 const DASHES = ['solid', 'dash', 'dot', 'dashdot', 'longdash', 'longdashdot'];
 
-/** Text plotly shows literally: no tag can form, and the three entities it decodes restore the characters. */
-export function plotlyText(text: unknown): string {
-  return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
-}
-
-
-
-
+export { plotlyText };
 
 const layout = (xTitle: string, yTitle: string, height = 360): Record<string, unknown> =>
   baseLayout(xTitle, yTitle, height, { hovermode: 'closest', legend: { orientation: 'h', x: 0, y: -0.2, yanchor: 'top' } });
@@ -42,8 +36,26 @@ interface Series {
   dash?: string;
 }
 
+/**
+ * Each shot's end of the in-bore phase (exit, stall, end time) and its first trigger, as thin lines in the shot's
+ * colour: the event marks of a comparison, where every shot's triggers and crowbars would crowd the plot.
+ */
+function endMarks(entries: ReadonlyArray<ComparedShotInput>, names: string[], time: Scale): Record<string, unknown> {
+  const ends = entries.flatMap((e, i) => {
+    const end = e.shot.events.find((event) => event.kind === 'exit' || event.kind === 'stall' || event.kind === 'timeout');
+    return end ? [{ i, t: end.t, label: `${names[i]}: ${end.kind === 'exit' ? 'muzzle exit' : end.kind === 'stall' ? 'stall' : 'end time'}` }] : [];
+  });
+  return {
+    shapes: ends.map((end) => ({ type: 'line', xref: 'x', yref: 'paper', x0: end.t * time.factor, x1: end.t * time.factor, y0: 0, y1: 1, line: { color: scenarioColour(end.i), width: 1, dash: 'dot' }, layer: 'below' })),
+    annotations: ends.map((end) => ({
+      x: end.t * time.factor, xref: 'x', y: 1, yref: 'paper', text: plotlyText(end.label), hovertext: plotlyText(`${end.label} at ${formatQuantity(end.t, 's')}`),
+      showarrow: false, textangle: -90, xanchor: 'left', yanchor: 'top', font: { size: 9, color: scenarioColour(end.i) }, bgcolor: 'rgba(255,255,255,0.7)',
+    })),
+  };
+}
+
 /** Each series keeps its own shot's time base, decimated with its own peaks and events. */
-function overlayFigure(id: string, title: string, caption: string, series: Series[], time: Scale, unit: string, quantity: string, decimate: DecimateOptions): PlotFigure {
+function overlayFigure(id: string, title: string, caption: string, series: Series[], time: Scale, unit: string, quantity: string, decimate: DecimateOptions, marks: Record<string, unknown> = {}): PlotFigure {
   const yScale = scaleFor(maxAbs(series.map((s) => s.values)));
   const data = series.map((s) => {
     const indices = decimateIndices(s.waveforms.t, [s.values], decimate);
@@ -56,7 +68,7 @@ function overlayFigure(id: string, title: string, caption: string, series: Serie
       line: { width: 1.7, color: scenarioColour(s.entry), dash: s.dash ?? 'solid' },
     };
   });
-  return { id, title, caption, data, layout: layout(`Time (${time.prefix}s)`, `${quantity} (${yScale.prefix}${unit})`) };
+  return { id, title, caption, data, layout: { ...layout(`Time (${time.prefix}s)`, `${quantity} (${yScale.prefix}${unit})`), ...marks } };
 }
 
 /** Names as the legend shows them: the scenario's name, numbered so two scenarios of one name stay apart. */
@@ -81,7 +93,7 @@ function budgetFigure(entries: ReadonlyArray<ComparedShotInput>, names: string[]
       type: 'bar',
       orientation: 'h',
       name: plotlyText(names[i]),
-      y: keep.map((p) => p.label),
+      y: keep.map((p) => plotlyText(p.label)),
       x: parts.map((energy) => round6(energy * scale.factor)),
       text: parts.map((energy) => formatPercent(energy / e.shot.results.energy.initial)),
       textposition: 'outside',
@@ -121,11 +133,12 @@ export function comparisonFigures(entries: ReadonlyArray<ComparedShotInput>, dec
         dash: DASHES[g % DASHES.length],
       })),
     );
+    const marks = endMarks(entries, names, time);
     figures.push(
-      overlayFigure('plot-current', 'Total rail current', 'One colour a scenario; time from the first trigger of each shot.', one((w) => w.current), time, 'A', 'Current', decimate),
-      overlayFigure('plot-velocity', 'Armature velocity', 'Each line ends where its shot ends (muzzle exit, stall or end time).', one((w) => w.velocity), time, 'm/s', 'Velocity', decimate),
-      overlayFigure('plot-capacitor', 'Capacitor voltages', 'Voltage across one capacitor of each group (dashes tell the groups of one scenario apart); below zero is reversal.', groups, time, 'V', 'Voltage', decimate),
-      overlayFigure('plot-breech', 'Breech voltage', 'Across the rails at the breech.', one((w) => w.breechVoltage), time, 'V', 'Voltage', decimate),
+      overlayFigure('plot-current', 'Total rail current', 'One colour a scenario; time from the first trigger of each shot; dotted lines mark where each shot leaves the bore.', one((w) => w.current), time, 'A', 'Current', decimate, marks),
+      overlayFigure('plot-velocity', 'Armature velocity', 'Each line ends where its shot ends (muzzle exit, stall or end time).', one((w) => w.velocity), time, 'm/s', 'Velocity', decimate, marks),
+      overlayFigure('plot-capacitor', 'Capacitor voltages', 'Voltage across one capacitor of each group (dashes tell the groups of one scenario apart); below zero is reversal.', groups, time, 'V', 'Voltage', decimate, marks),
+      overlayFigure('plot-breech', 'Breech voltage', 'Across the rails at the breech.', one((w) => w.breechVoltage), time, 'V', 'Voltage', decimate, marks),
     );
   }
   figures.push(budgetFigure(entries, names));

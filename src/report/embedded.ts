@@ -2,6 +2,10 @@
  * The machine-readable part of a shot report: the scenario as written and the results with their
  * provenance, embedded as JSON so an archive index (or anyone) can read a report without parsing HTML.
  */
+import type { ShotStatus } from '../checks/assess.js';
+import type { CheckDirection } from '../checks/engineering.js';
+import type { BankHazard, HazardClass } from '../checks/hazard.js';
+import type { ShotFiling } from '../scenario/types.js';
 import type { ShotResults } from '../solve/types.js';
 import type { ShotProvenance } from '../output/provenance.js';
 import { jsonScriptElement, readJsonScriptElement } from './escape.js';
@@ -20,6 +24,10 @@ export interface ReportCheck {
   verdict: string;
   value: number | null;
   limit: number | null;
+  /** "at-most" (≤ limit), "at-least" (≥ limit), or null for a hazard class; absent in records of older versions */
+  direction?: CheckDirection | null;
+  warnAt?: number;
+  hazardClass?: HazardClass | null;
   unit: string;
   source: string;
   note?: string;
@@ -35,6 +43,12 @@ export interface EmbeddedResultsBlock {
   provenance: ReportProvenance;
   warnings: string[];
   checks: ReportCheck[];
+  /** the worst of the checks and the warnings (absent in records of older versions: computed from them) */
+  status?: ShotStatus;
+  /** stored energy, highest charge voltage and hazard classes of the bank (absent in older records) */
+  hazard?: BankHazard;
+  /** the scenario's `record` section: shot id, operator, reviewer, notes */
+  record?: ShotFiling;
 }
 
 export interface EmbeddedReport extends Omit<EmbeddedResultsBlock, 'format' | 'formatVersion'> {
@@ -50,6 +64,14 @@ export class NotAReportError extends Error {}
 
 function isObject(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+/** Only the text fields of a filing (an archive is read from files anyone may have edited). */
+function filingOf(value: unknown): ShotFiling {
+  const record = value as Record<string, unknown>;
+  const out: ShotFiling = {};
+  for (const key of ['shotId', 'operator', 'reviewer', 'notes'] as const) if (typeof record[key] === 'string') out[key] = record[key] as string;
+  return out;
 }
 
 /** Read the embedded scenario and results back from a report's HTML text. */
@@ -80,5 +102,8 @@ export function readEmbedded(html: string): EmbeddedReport {
     provenance: full.provenance,
     warnings: Array.isArray(full.warnings) ? full.warnings.map(String) : [],
     checks: Array.isArray(full.checks) ? full.checks : [],
+    ...(isObject(full.status) ? { status: full.status } : {}),
+    ...(isObject(full.hazard) ? { hazard: full.hazard } : {}),
+    ...(isObject(full.record) ? { record: filingOf(full.record) } : {}),
   };
 }

@@ -17,6 +17,16 @@ export function escapeHtml(text: unknown): string {
 }
 
 /**
+ * Text that the plotting library shows literally. Plotly reads a few HTML-like tags in legend, title, axis,
+ * annotation and hover strings (<a href>, <b>, <i>, <br>, <sub>, <sup>, <span style>) and decodes &amp;, &lt; and
+ * &gt;; escaping those three characters leaves no tag to form, and plotly turns the entities back into the user's
+ * characters. Every user string that reaches a plot goes through this.
+ */
+export function plotlyText(text: unknown): string {
+  return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
+/**
  * JSON for a `<script type="application/json">` block: `<`, `>`, `&` become \u003c, \u003e, \u0026 so
  * no string can close the element; U+2028/2029 are escaped too so the text also stays valid JavaScript.
  * JSON.parse restores the original characters.

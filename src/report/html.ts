@@ -3,8 +3,11 @@
  * years. Pure string building; the only input besides the arguments is the plotly bundle read from
  * node_modules. Same input → same bytes (the date comes from the provenance).
  */
+import { statusOf } from '../checks/assess.js';
+import { bankHazard } from '../checks/hazard.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Shot, ShotResults } from '../solve/types.js';
+import { columnFormatter, formatPercent, formatQuantity, GN, STANDARD_GRAVITY } from '../units/format.js';
 import type { DecimateOptions } from './decimate.js';
 import {
   embeddedElements,
@@ -14,14 +17,13 @@ import {
   type ReportCheck,
   type ReportProvenance,
 } from './embedded.js';
-import { STANDARD_GRAVITY } from '../units/format.js';
 import { escapeHtml, jsonScriptElement } from './escape.js';
-import { formatPercent, formatQuantity, formatScientific } from './format.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from './plotly-bundle.js';
 import { energyBudgetParts, shotFigures, type PlotFigure } from './plots.js';
 import { overlayElement, overlayFigures, overlaySection, type OverlayInput } from './overlay.js';
-import { safetySection } from './safety.js';
-import { pageStart } from './styles.js';
+import { bankSize, safetyBanner, safetyProcedures, type BankOnPage } from './safety.js';
+import { statusBanner } from './status.js';
+import { DATE_SCRIPT, dateHtml, pageStart } from './styles.js';
 import { checksSection, eventsSection, inputsSection, modulesSection, provenanceSection } from './tables.js';
 
 export { readEmbedded, type EmbeddedReport, type ReportCheck, type ReportProvenance } from './embedded.js';
@@ -68,7 +70,7 @@ function keyFigures(results: ShotResults): KeyFigure[] {
       key: 'muzzleVelocity',
       label: exited ? 'Muzzle velocity' : 'Final velocity (no exit)',
       si: results.muzzleVelocity,
-      text: formatQuantity(results.muzzleVelocity, 'm/s', { prefix: false }),
+      text: formatQuantity(results.muzzleVelocity, 'm/s'),
     },
     {
       key: 'exitTime',
@@ -90,11 +92,11 @@ function keyFigures(results: ShotResults): KeyFigure[] {
       key: 'peakAcceleration',
       label: 'Peak acceleration',
       si: results.peakAcceleration,
-      text: formatScientific(results.peakAcceleration, 'm/s\u00B2'),
-      aside: `${formatQuantity(results.peakAcceleration / STANDARD_GRAVITY, 'g', { prefix: false })} (g\u2099 = 9.80665 m/s\u00B2)`,
+      text: formatQuantity(results.peakAcceleration, 'm/s\u00B2'),
+      aside: `${formatQuantity(results.peakAcceleration / STANDARD_GRAVITY, GN)} (g\u2099 = 9.80665 m/s\u00B2)`,
     },
     { key: 'peakBreechVoltage', label: 'Peak breech voltage', si: results.peakBreechVoltage, text: formatQuantity(results.peakBreechVoltage, 'V') },
-    { key: 'actionIntegral', label: 'Action integral \u222BI\u00B2dt', si: results.actionIntegral, text: formatScientific(results.actionIntegral, 'A\u00B2\u00B7s') },
+    { key: 'actionIntegral', label: 'Action integral \u222BI\u00B2dt', si: results.actionIntegral, text: formatQuantity(results.actionIntegral, 'A\u00B2\u00B7s') },
     { key: 'energy.initial', label: 'Stored energy E0', si: e.initial, text: formatQuantity(e.initial, 'J') },
     {
       key: 'energy.magneticRails',
@@ -121,37 +123,43 @@ function figuresSection(results: ShotResults): string {
 
 function headerSection(scenario: Scenario, results: ShotResults, provenance: ReportProvenance): string {
   const outcome = results.outcome;
+  const filing = scenario.record ?? {};
+  const filed = (
+    [
+      ['shotId', 'Shot', filing.shotId],
+      ['operator', 'Operator', filing.operator],
+      ['reviewer', 'Reviewer', filing.reviewer],
+    ] as const
+  )
+    .filter(([, , value]) => value)
+    .map(([key, label, value]) => `<span><b>${label}</b> <span data-record="${key}">${escapeHtml(value)}</span></span>`)
+    .join('\n');
   return `<header>
 <p class="kicker">railpulse \u00B7 shot record (simulation)</p>
 <h1 id="scenario-name">${escapeHtml(scenario.name)}</h1>
 ${scenario.description ? `<p class="description" id="scenario-description">${escapeHtml(scenario.description)}</p>` : ''}
 <p>Outcome: <span class="outcome outcome-${escapeHtml(outcome)}" data-figure="outcome" data-value="${escapeHtml(outcome)}">${escapeHtml(OUTCOME_TEXT[outcome] ?? outcome)}</span></p>
-<div class="meta"><span><b>Date</b> <span data-date>${escapeHtml(provenance.date)}</span></span>
+<div class="meta">${filed}
+<span><b>Date</b> ${dateHtml(provenance.date)}</span>
 <span><b>Scenario SHA-256</b> <code>${escapeHtml(provenance.scenarioSha256.slice(0, 16))}</code></span>
 <span><b>Tool</b> railpulse ${escapeHtml(provenance.toolVersion)}</span>
-<span><b>Bank</b> ${scenario.bank.length} group${scenario.bank.length === 1 ? '' : 's'}, ${scenario.bank.reduce((n, g) => n + g.count, 0)} modules</span></div>
+<span><b>Bank</b> ${bankSize(scenario.bank)}</span></div>
+${filing.notes ? `<p class="note" id="record-notes"><b>Notes:</b> <span data-record="notes">${escapeHtml(filing.notes)}</span></p>` : ''}
 </header>`;
-}
-
-function warningsSection(warnings: string[], ringDown = false): string {
-  if (warnings.length === 0) {
-    const first = ringDown ? 'the bank discharged into the short' : 'the armature left the muzzle';
-    return `<section id="warnings" class="no-warnings" data-warnings="0">No warnings: ${first}, no capacitor reversed beyond its rating, and the energy ledger closes.</section>`;
-  }
-  const items = warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('\n');
-  return `<section id="warnings" class="warnings" role="alert" data-warnings="${warnings.length}"><h2>Warnings (${warnings.length})</h2><ul>\n${items}\n</ul></section>`;
 }
 
 function budgetTable(results: ShotResults): string {
   const initial = results.energy.initial;
-  const rows = energyBudgetParts(results)
+  const parts = energyBudgetParts(results);
+  const energy = columnFormatter([initial, ...parts.map((p) => p.energy)], 'J');
+  const rows = parts
     .map(
       (p) =>
-        `<tr data-budget="${escapeHtml(p.key)}"><td>${escapeHtml(p.label)}</td><td class="num">${formatQuantity(p.energy, 'J')}</td><td class="num">${formatPercent(p.energy / initial)}</td></tr>`,
+        `<tr data-budget="${escapeHtml(p.key)}"><td>${escapeHtml(p.label)}</td><td class="num">${energy.format(p.energy)}</td><td class="num">${formatPercent(p.energy / initial)}</td></tr>`,
     )
     .join('\n');
   return `<table class="budget"><thead><tr><th>Where the stored energy is at the end of the in-bore phase</th><th class="num">Energy</th><th class="num">Share of E0</th></tr></thead>
-<tbody>${rows}</tbody><tfoot><tr><th>Total = stored energy E0</th><th class="num">${formatQuantity(initial, 'J')}</th><th class="num">100\u00A0%</th></tr></tfoot></table>
+<tbody>${rows}</tbody><tfoot><tr><th>Total = stored energy E0</th><th class="num">${energy.format(initial)}</th><th class="num">100\u00A0%</th></tr></tfoot></table>
 <p class="note">The module-inductor energy is shared between the muzzle arc and the module resistances, so the arc energy lies between the feed-and-rails part and the sum of both magnetic parts.</p>`;
 }
 
@@ -166,25 +174,39 @@ function plotsSection(figures: PlotFigure[], results: ShotResults, hasWaveforms:
   return `<section id="plots"><h2>Waveforms and energy</h2>${note}\n${blocks}\n</section>`;
 }
 
-/** Draw every figure; mark the body when all are drawn (tests and printing wait for it). */
-const RENDER_SCRIPT = `(function () {
+/**
+ * Draw every figure once the page has painted (the safety banner, the status and the figures show at once, the plots
+ * follow); mark the body when all are drawn (tests and printing wait for it).
+ */
+const RENDER_SCRIPT = `${DATE_SCRIPT}
+(function () {
   var figures = JSON.parse(document.getElementById('railpulse-plots').textContent);
   var config = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ['select2d', 'lasso2d'],
     toImageButtonOptions: { format: 'png', scale: 2 } };
-  var drawn = figures.map(function (f) { return Plotly.newPlot(f.id, f.data, f.layout, config); });
-  Promise.all(drawn).then(function () { document.body.setAttribute('data-plots', 'rendered'); },
-    function (error) { document.body.setAttribute('data-plots', 'failed'); console.error(error); });
+  function draw() {
+    var drawn = figures.map(function (f) { return Plotly.newPlot(f.id, f.data, f.layout, config); });
+    Promise.all(drawn).then(function () { document.body.setAttribute('data-plots', 'rendered'); },
+      function (error) { document.body.setAttribute('data-plots', 'failed'); console.error(error); });
+  }
+  requestAnimationFrame(function () { setTimeout(draw, 0); });
   // Paper is narrower than a screen: fit the plots to the printed page, and back afterwards.
   function resizeAll() { figures.forEach(function (f) { Plotly.Plots.resize(document.getElementById(f.id)); }); }
   window.addEventListener('beforeprint', resizeAll);
   window.addEventListener('afterprint', resizeAll);
 })();`
 
+/** The bank of a shot as the safety banner and the safety section show it. */
+export function bankOnPage(scenario: Scenario): BankOnPage {
+  return { hazard: bankHazard(scenario.bank, scenario.limits), groups: scenario.bank, name: scenario.name };
+}
+
 export function buildShotReport(input: ShotReportInput): string {
   const { scenario, shot, provenance } = input;
   const results = shot.results;
   const warnings = [...new Set(input.warnings)];
-  const figures = shotFigures(scenario, results, shot.waveforms, input.decimate);
+  const checks = input.checks ?? [];
+  const figures = shotFigures(scenario, results, shot.waveforms, input.decimate, shot.events);
+  const bank = bankOnPage(scenario);
   const block: EmbeddedResultsBlock = {
     format: REPORT_FORMAT,
     formatVersion: REPORT_FORMAT_VERSION,
@@ -193,7 +215,10 @@ export function buildShotReport(input: ShotReportInput): string {
     results,
     provenance,
     warnings,
-    checks: input.checks ?? [],
+    checks,
+    status: statusOf(checks, warnings),
+    hazard: bank.hazard,
+    ...(scenario.record ? { record: scenario.record } : {}),
   };
   const overlayPlots = input.overlay ? overlayFigures(shot.waveforms, input.overlay, input.decimate) : [];
   const plotData = [...overlayPlots, ...figures].map((f) => ({ id: f.id, data: f.data, layout: f.layout }));
@@ -204,16 +229,17 @@ ${embeddedElements(block, input.scenarioRaw)}${input.overlay ? `\n${overlayEleme
 <body data-plots="pending">
 <main>
 ${headerSection(scenario, results, provenance)}
-${warningsSection(warnings, scenario.load !== undefined)}
+${safetyBanner([bank])}
+${statusBanner(checks, warnings)}
 ${figuresSection(results)}
 ${input.overlay ? overlaySection(input.overlay, overlayPlots) : ''}
-${safetySection(scenario)}
+${checksSection(checks)}
 ${plotsSection(figures, results, shot.waveforms !== null)}
 ${modulesSection(scenario, results)}
 ${eventsSection(shot.events, results)}
-${checksSection(input.checks)}
 ${inputsSection(input.scenarioRaw, scenario)}
 ${provenanceSection(provenance, PLOTLY_PACKAGE)}
+${safetyProcedures([bank])}
 <footer>Simulation record produced by railpulse ${escapeHtml(provenance.toolVersion)} from the scenario embedded in this file. Model results, not measurements. Plots by plotly.js (MIT licence), inlined.</footer>
 </main>
 ${jsonScriptElement('railpulse-plots', plotData)}

@@ -9,7 +9,7 @@
 import { interpolationCursor } from '../core/interpolate.js';
 import type { Waveforms } from '../solve/types.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
-import { scaleFor, type Scale } from './format.js';
+import { scaleFor, type Scale } from '../units/format.js';
 import { axis, baseLayout, maxAbs, round6, type PlotFigure, type PlotTrace } from './plots.js';
 import { SIGNALS, type OverlayInput, type PositionPoints, type SignalName } from './overlay-types.js';
 

@@ -5,7 +5,7 @@
  * down-weighted. Pure: the goodness of fit is computed by src/measure and passed in; nothing is re-derived.
  */
 import { escapeHtml, jsonScriptElement } from './escape.js';
-import { formatPlain, formatQuantity, NO_VALUE } from './format.js';
+import { formatExact, formatNumber, formatPercent, formatQuantity, formatWithUncertainty, NO_VALUE } from '../units/format.js';
 import type { PlotFigure } from './plots.js';
 import { SIGNALS, type Comparison, type GoodnessOfFit, type Measurement, type OverlayFit, type OverlayInput, type SignalName } from './overlay-types.js';
 
@@ -14,14 +14,14 @@ export type * from './overlay-types.js';
 
 export const OVERLAY_ELEMENT_ID = 'railpulse-overlay';
 
-function comparisonRow(key: string, label: string, c: Comparison | undefined, unit: string, prefix = true): string {
+function comparisonRow(key: string, label: string, c: Comparison | undefined, unit: string): string {
   if (!c) return '';
-  const q = (v: number): string => formatQuantity(v, unit, { prefix });
+  const q = (v: number): string => formatQuantity(v, unit);
   return `<tr data-goodness="${key}" data-error="${c.error}"><td>${escapeHtml(label)}</td><td class="num">${q(c.model)}</td><td class="num">${q(c.measured)}</td><td class="num">${q(c.error)}</td><td class="num">${formatRelative(c.relativeError)}</td></tr>`;
 }
 
 function formatRelative(fraction: number): string {
-  return Number.isFinite(fraction) ? `${formatPlain(fraction * 100, 3)}\u00A0%` : NO_VALUE;
+  return formatPercent(fraction);
 }
 
 function goodnessTable(goodness: GoodnessOfFit): string {
@@ -37,7 +37,7 @@ function goodnessTable(goodness: GoodnessOfFit): string {
     comparisonRow('peakCurrent', 'Peak current', goodness.peakCurrent, 'A') +
     comparisonRow('peakCurrentTime', 'Time of peak current', goodness.peakCurrentTime, 's') +
     comparisonRow('exitTime', 'Exit time', goodness.exitTime, 's') +
-    comparisonRow('muzzleVelocity', 'Muzzle velocity', goodness.muzzleVelocity, 'm/s', false);
+    comparisonRow('muzzleVelocity', 'Muzzle velocity', goodness.muzzleVelocity, 'm/s');
   const arrivals = goodness.arrivalTimeErrors
     ? `<p class="note" data-goodness="arrivalTimes">Probe arrival-time errors (model − measured): ${goodness.arrivalTimeErrors.map((e) => (e === null ? 'not reached' : formatQuantity(e, 's'))).join(', ')}.</p>`
     : '';
@@ -45,7 +45,7 @@ function goodnessTable(goodness: GoodnessOfFit): string {
   return `<table class="goodness"><thead><tr><th>Goodness of fit</th><th class="num">Model</th><th class="num">Measured</th><th class="num">Error (model − measured)</th><th class="num">Relative</th></tr></thead><tbody>${rows}</tbody></table>${arrivals}`;
 }
 
-const short = (x: number): string => String(Number(x.toPrecision(6)));
+const short = (x: number): string => formatExact(x, '');
 
 function columnsTable(measurement: Measurement): string {
   const rows = measurement.columns
@@ -59,8 +59,8 @@ function fitTables(fit: OverlayFit): string {
   const rows = names
     .map((name) => {
       const p = fit.parameters[name]!;
-      const u = Number.isFinite(p.uncertainty) ? formatQuantity(p.uncertainty, p.unit) : 'on a bound';
-      return `<tr data-parameter="${escapeHtml(name)}" data-value="${p.value}"><td class="path">${escapeHtml(name)}</td><td class="num">${formatQuantity(p.value, p.unit)}</td><td class="num">\u00B1\u00A0${u}</td><td class="num">${formatQuantity(p.initial, p.unit)}</td></tr>`;
+      const fitted = Number.isFinite(p.uncertainty) ? formatWithUncertainty(p.value, p.uncertainty, p.unit) : `${formatQuantity(p.value, p.unit)} (on a bound)`;
+      return `<tr data-parameter="${escapeHtml(name)}" data-value="${p.value}"><td class="path">${escapeHtml(name)}</td><td class="num">${fitted}</td><td class="num">${formatQuantity(p.initial, p.unit)}</td></tr>`;
     })
     .join('');
   const r = (a: string, b: string): number => (a === b ? 1 : fit.correlations[`${a}|${b}`] ?? fit.correlations[`${b}|${a}`] ?? NaN);
@@ -72,8 +72,8 @@ function fitTables(fit: OverlayFit): string {
       : '';
   const warnings = fit.warnings.length ? `<ul class="fit-warnings">${fit.warnings.map((w) => `<li>${escapeHtml(w)}</li>`).join('')}</ul>` : '';
   const decimated = fit.blockSize > 1 ? ` The record was decimated for the fit into means of ${fit.blockSize} samples, single samples kept next to every switching instant.` : '';
-  return `<h3>Calibration</h3><p class="note">Bounded Levenberg–Marquardt on the measured signals, each residual divided by its noise and passed through Huber's loss (quadratic within ${fit.huberThreshold} noise units, linear beyond); samples closer than one sample interval to a switching instant of the model are left out, the set re-evaluated after each of the ${fit.outerIterations} run(s).${decimated} One standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations in the last run; χ²/ν = ${formatPlain(fit.residual.chiSquaredReduced, 4)}.</p>
-<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted</th><th class="num">Uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}${downWeightedTable(fit)}`;
+  return `<h3>Calibration</h3><p class="note">Bounded Levenberg–Marquardt on the measured signals, each residual divided by its noise and passed through Huber's loss (quadratic within ${fit.huberThreshold} noise units, linear beyond); samples closer than one sample interval to a switching instant of the model are left out, the set re-evaluated after each of the ${fit.outerIterations} run(s).${decimated} One standard uncertainty from the covariance of the linearised model at the optimum, (JᵀJ)⁻¹, scaled by √(χ²/ν) when the misfit exceeds the noise. ${fit.shots} shots, ${fit.iterations} iterations in the last run; χ²/ν = ${formatNumber(fit.residual.chiSquaredReduced)}.</p>
+<table class="fitted"><thead><tr><th>Parameter</th><th class="num">Fitted value \u00B1 standard uncertainty (1σ)</th><th class="num">Initial</th></tr></thead><tbody>${rows}</tbody></table>${matrix}${warnings}${downWeightedTable(fit)}`;
 }
 
 /** Rows shown of the down-weighted list; the embedded data hold all of them. */
@@ -84,7 +84,7 @@ function downWeightedTable(fit: OverlayFit): string {
   if (list.length === 0) return `<p class="note" data-down-weighted="0">No sample lay beyond ${fit.huberThreshold} noise units at the optimum: every compared sample counted with full weight.</p>`;
   const rows = list
     .slice(0, SHOWN_DOWN_WEIGHTED)
-    .map((d) => `<tr data-down-weighted-t="${d.t ?? ''}"><td>${escapeHtml(d.group)}</td><td class="num">${d.t === null ? NO_VALUE : formatQuantity(d.t, 's')}</td><td class="num">${formatPlain(d.residual, 3)}</td><td class="num">${formatPlain(d.weight, 3)}</td></tr>`)
+    .map((d) => `<tr data-down-weighted-t="${d.t ?? ''}"><td>${escapeHtml(d.group)}</td><td class="num">${d.t === null ? NO_VALUE : formatQuantity(d.t, 's')}</td><td class="num">${formatNumber(d.residual)}</td><td class="num">${formatNumber(d.weight)}</td></tr>`)
     .join('');
   const more = list.length > SHOWN_DOWN_WEIGHTED ? `<p class="note">… and ${list.length - SHOWN_DOWN_WEIGHTED} more (all are in the embedded data).</p>` : '';
   return `<table class="down-weighted" data-down-weighted="${list.length}"><thead><tr><th>Down-weighted (Huber)</th><th class="num">Time</th><th class="num">Residual (σ)</th><th class="num">Weight</th></tr></thead><tbody>${rows}</tbody></table>${more}`;

@@ -4,9 +4,11 @@
  * below what a plot can show and keeps a report of a long multi-group shot small.
  */
 import type { Scenario } from '../scenario/types.js';
-import { LOSS_KEYS, type LossKey, type ShotResults, type Waveforms } from '../solve/types.js';
+import { LOSS_KEYS, type LossKey, type ShotEvent, type ShotResults, type Waveforms } from '../solve/types.js';
+import { formatPercent, scaleFor, type Scale } from '../units/format.js';
 import { decimateIndices, pick, type DecimateOptions } from './decimate.js';
-import { formatPercent, scaleFor, type Scale } from './format.js';
+import { plotlyText } from './escape.js';
+import { eventMarks, markLayout, type EventMark } from './eventMarks.js';
 
 export interface PlotTrace {
   [key: string]: unknown;
@@ -116,6 +118,7 @@ function lineFigure(
   unit: string,
   quantity: string,
   decimate: DecimateOptions,
+  marks: readonly EventMark[] = [],
 ): PlotFigure {
   const time = timeScale(waveforms);
   const indices = decimateIndices(waveforms.t, series.map((s) => s.values), decimate);
@@ -124,13 +127,13 @@ function lineFigure(
   const data = series.map((s, i) => ({
     type: 'scatter',
     mode: 'lines',
-    name: s.name,
+    name: plotlyText(s.name),
     x,
     y: scaled(s.values, indices, yScale),
     line: { width: 1.6, color: colour(s.colourIndex ?? i) },
     ...s.extra,
   }));
-  const layout = baseLayout(`Time (${time.prefix}s)`, `${quantity} (${yScale.prefix}${unit})`);
+  const layout = { ...baseLayout(`Time (${time.prefix}s)`, `${quantity} (${yScale.prefix}${unit})`), ...markLayout(marks, time) };
   return { id, title, caption, data, layout };
 }
 
@@ -138,7 +141,7 @@ function timeScale(waveforms: Waveforms): Scale {
   return scaleFor(waveforms.t[waveforms.t.length - 1] ?? 0);
 }
 
-function motionFigure(waveforms: Waveforms, decimate: DecimateOptions): PlotFigure {
+function motionFigure(waveforms: Waveforms, decimate: DecimateOptions, marks: readonly EventMark[]): PlotFigure {
   const time = timeScale(waveforms);
   const rows: Array<[string, ArrayLike<number>, string]> = [
     ['Position', waveforms.position, 'm'],
@@ -156,6 +159,7 @@ function motionFigure(waveforms: Waveforms, decimate: DecimateOptions): PlotFigu
   layout['showlegend'] = false;
   layout['margin'] = { l: 72, r: 24, t: 12, b: 48 };
   layout['xaxis'] = axis(`Time (${time.prefix}s)`, { anchor: 'y3' });
+  Object.assign(layout, markLayout(marks, time));
   const data = rows.map(([name, values, unit], i) => {
     const yScale = scaleFor(maxAbs([values]));
     const axisKey = i === 0 ? 'yaxis' : `yaxis${i + 1}`;
@@ -184,7 +188,7 @@ function isUsed(values: ArrayLike<number>, scale: number): boolean {
   return maxAbs([values]) > 1e-12 * scale;
 }
 
-function ledgerFigure(waveforms: Waveforms, initial: number, decimate: DecimateOptions): PlotFigure {
+function ledgerFigure(waveforms: Waveforms, initial: number, decimate: DecimateOptions, marks: readonly EventMark[]): PlotFigure {
   const parts: SeriesSpec[] = [
     { name: 'capacitors', values: waveforms.energy.capacitors },
     { name: 'magnetic', values: waveforms.energy.magnetic },
@@ -202,7 +206,9 @@ function ledgerFigure(waveforms: Waveforms, initial: number, decimate: DecimateO
     parts,
     'J',
     'Energy',
-    decimate,
+    // ten stacked areas: a thousand points each is all a plot a thousand pixels wide shows, and a third of the work
+    { target: 1000, max: 1500, ...decimate },
+    marks,
   );
   // Stacked areas read best with fills that differ more than line colours do.
   figure.data.forEach((trace, i) => {
@@ -248,7 +254,7 @@ function budgetFigure(results: ShotResults): PlotFigure {
       type: 'bar',
       orientation: 'h',
       name: 'share of E0',
-      y: parts.map((p) => p.label),
+      y: parts.map((p) => plotlyText(p.label)),
       x: parts.map((p) => round6(p.energy * scale.factor)),
       text: parts.map((p) => formatPercent(p.energy / initial)),
       textposition: 'outside',
@@ -270,15 +276,20 @@ function budgetFigure(results: ShotResults): PlotFigure {
   };
 }
 
-/** All figures of a shot report, in page order. Without waveforms only the energy budget remains. */
+/**
+ * All figures of a shot report, in page order. Without waveforms only the energy budget remains. Every time plot
+ * carries the event marks (triggers, crowbar onsets, armature start, end of the in-bore phase).
+ */
 export function shotFigures(
   scenario: Scenario,
   results: ShotResults,
   waveforms: Waveforms | null,
   decimate: DecimateOptions = {},
+  events: readonly ShotEvent[] = [],
 ): PlotFigure[] {
   if (!waveforms || waveforms.t.length === 0) return [budgetFigure(results)];
   const labels = scenario.bank.map((group, i) => results.modules[i]?.label ?? group.label);
+  const marks = eventMarks(events, labels);
   const groups = waveforms.groupCurrent.map((values, i) => ({ name: labels[i] ?? `group ${i + 1}`, values, colourIndex: i }));
   const currents: SeriesSpec[] = [
     { name: 'total current I', values: waveforms.current, extra: { line: { width: 2.2, color: '#111' } } },
@@ -286,13 +297,13 @@ export function shotFigures(
   ];
   return [
     lineFigure('plot-current', 'Current', 'Total rail current and, for a bank of several groups, the current of each group (all its modules).',
-      waveforms, currents, 'A', 'Current', decimate),
+      waveforms, currents, 'A', 'Current', decimate, marks),
     lineFigure('plot-capacitor', 'Capacitor voltages', 'Voltage across one capacitor of each group; below zero is voltage reversal.',
-      waveforms, waveforms.groupVoltage.map((values, i) => ({ name: labels[i] ?? `group ${i + 1}`, values, colourIndex: i })), 'V', 'Voltage', decimate),
+      waveforms, waveforms.groupVoltage.map((values, i) => ({ name: labels[i] ?? `group ${i + 1}`, values, colourIndex: i })), 'V', 'Voltage', decimate, marks),
     lineFigure('plot-rail-voltage', 'Breech and muzzle voltage', 'Breech: across the rails at the breech. Muzzle: across the armature (resistive and arc drop).',
-      waveforms, [{ name: 'breech', values: waveforms.breechVoltage }, { name: 'muzzle (armature)', values: waveforms.muzzleVoltage }], 'V', 'Voltage', decimate),
-    motionFigure(waveforms, decimate),
-    ledgerFigure(waveforms, results.energy.initial, decimate),
+      waveforms, [{ name: 'breech', values: waveforms.breechVoltage }, { name: 'muzzle (armature)', values: waveforms.muzzleVoltage }], 'V', 'Voltage', decimate, marks),
+    motionFigure(waveforms, decimate, marks),
+    ledgerFigure(waveforms, results.energy.initial, decimate, marks),
     budgetFigure(results),
   ];
 }

@@ -1,3 +1,4 @@
+import { readableUtcDate } from '../units/format.js';
 import { escapeHtml } from './escape.js';
 /**
  * Page style shared by the shot report and the archive index: a plain, print-friendly record.
@@ -35,6 +36,18 @@ p{line-height:1.5;margin:6px 0}
 .warnings ul{margin:4px 0;padding-left:20px}.warnings li{margin:4px 0;line-height:1.45}
 .no-warnings{margin:18px 0 0;padding:8px 14px;border:1px solid #9bb59c;background:#f5faf5;color:#1d5e20}
 .safety{border:2px solid #111;padding:4px 18px 12px;margin-top:30px;background:#fffbea}
+.safety-banner{border:2px solid #111;border-left-width:8px;background:#fffbea;padding:8px 14px;margin:14px 0 0;font-size:13.5px;line-height:1.5}
+.safety-banner p{margin:0}.safety-banner a{color:#111}
+.status{border:2px solid;padding:8px 14px 8px;margin:12px 0 0}
+.status h2{border:0;margin:0;padding:0;font-size:15px}
+.status ul{margin:4px 0;padding-left:20px}.status li{margin:3px 0;line-height:1.45}
+.status-pass{border-color:#1d5e20;background:#f5faf5}.status-pass h2{color:#1d5e20}
+.status-warn{border-color:#8a5a00;background:#fff8e6}.status-warn h2{color:#8a5a00}
+.status-fail{border-color:#9c1c1c;background:#fff6f4}.status-fail h2{color:#9c1c1c}
+.badge{display:inline-block;font-size:12px;font-weight:700;letter-spacing:.06em;text-transform:uppercase;padding:1px 7px;border:1.5px solid currentColor;border-radius:2px;margin-right:6px}
+.local-date{color:#555}
+tr.section-head th{background:#efefea;border-bottom:1px solid #999;font-weight:700;padding-top:8px}
+td.key{font-family:"DejaVu Sans Mono",Menlo,Consolas,monospace;font-size:12px;padding-left:18px}
 .safety h2{border-bottom:1px solid #111;margin-top:12px}
 .safety .lead{font-size:15px}
 .plot-block{margin:18px 0 26px;break-inside:avoid;page-break-inside:avoid}
@@ -48,7 +61,7 @@ td.num,th.num{text-align:right;font-variant-numeric:tabular-nums;white-space:now
 td.path,code{font-family:"DejaVu Sans Mono",Menlo,Consolas,monospace;font-size:12px}
 td.default{color:#777;font-style:italic}
 .verdict{font-weight:700;text-transform:uppercase;font-size:11px;letter-spacing:.05em}
-.verdict-pass{color:#1d5e20}.verdict-warn{color:#8a5a00}.verdict-fail{color:#9c1c1c}
+.verdict-pass{color:#1d5e20}.verdict-warn{color:#8a5a00}.verdict-fail{color:#9c1c1c}.verdict-info{color:#555}
 .note{font-size:12px;color:#444}
 dl.provenance{display:grid;grid-template-columns:max-content 1fr;gap:3px 18px;font-size:12.5px}
 dl.provenance dt{color:#555}dl.provenance dd{margin:0;font-family:"DejaVu Sans Mono",Menlo,Consolas,monospace;word-break:break-all}
@@ -62,7 +75,7 @@ th[aria-sort=ascending]:after{content:" \\25B2";color:#111}th[aria-sort=descendi
   main{max-width:none;padding:0;border:0}
   .modebar,.filter{display:none!important}
   h2{break-after:avoid;page-break-after:avoid}
-  .safety,.warnings,table,tr{break-inside:avoid;page-break-inside:avoid}
+  .safety,.safety-banner,.status,.warnings,table,tr{break-inside:avoid;page-break-inside:avoid}
   a{color:#111;text-decoration:none}
 }
 `;
@@ -84,3 +97,20 @@ export function pageStart(title: string, options: { generator?: string; css?: st
 ${options.generator ? `<meta name="generator" content="${escapeHtml(options.generator)}">\n` : ''}<title>${escapeHtml(title)}</title>
 <style>${RECORD_CSS}${options.css ?? ''}</style>`;
 }
+
+/**
+ * A date as stored (ISO 8601, UTC) and beside it in words: in UTC in the file (so the same input gives the same
+ * bytes), replaced by the reader's local time when the page opens (DATE_SCRIPT).
+ */
+export function dateHtml(iso: string): string {
+  return `<time datetime="${escapeHtml(iso)}" data-date>${escapeHtml(iso)}</time> <span class="local-date" data-local-date="${escapeHtml(iso)}">(${escapeHtml(readableUtcDate(iso))})</span>`;
+}
+
+/** Puts every [data-local-date] in the reader's local time and zone. Plain ES5 text, run by every page. */
+export const DATE_SCRIPT = `(function () {
+  var options = { weekday: 'short', year: 'numeric', month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit', timeZoneName: 'short' };
+  Array.prototype.forEach.call(document.querySelectorAll('[data-local-date]'), function (element) {
+    var date = new Date(element.getAttribute('data-local-date'));
+    if (!isNaN(date.getTime())) element.textContent = '(' + date.toLocaleString(undefined, options) + ')';
+  });
+})();`;

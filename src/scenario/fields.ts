@@ -114,6 +114,17 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
   $schema: { kind: 'text', maxLength: 2_000, description: 'JSON Schema of this file (for editors)' },
   name: { kind: 'text', maxLength: MAX_NAME_LENGTH, required: true, description: 'short name of the shot' },
   description: { kind: 'text', maxLength: MAX_DESCRIPTION_LENGTH, description: 'what the shot is for' },
+  record: {
+    kind: 'section',
+    optional: true,
+    description: 'how the lab files this shot: shown on its record and in the archive index (no effect on the simulation)',
+    fields: {
+      shotId: { kind: 'text', maxLength: MAX_NAME_LENGTH, description: "the lab's shot number or identifier, e.g. \"B2-0117\"" },
+      operator: { kind: 'text', maxLength: MAX_NAME_LENGTH, description: 'who prepared or fires the shot' },
+      reviewer: { kind: 'text', maxLength: MAX_NAME_LENGTH, description: 'who reviewed the design and the record' },
+      notes: { kind: 'text', maxLength: MAX_DESCRIPTION_LENGTH, description: 'free notes filed with the record' },
+    },
+  },
   bank: {
     kind: 'list',
     required: true,

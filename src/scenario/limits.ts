@@ -53,7 +53,7 @@ export const LIMIT_SOURCES: Record<keyof EngineeringLimits, string> = {
   railHeatingWarnFraction: 'design margin chosen here, not a published value (copper softens far below melting)',
   linearCurrentDensityWarn: 'common practice, from memory (medium): solid-armature guns with copper rails are kept below about 40–50 kA per mm of rail height',
   linearCurrentDensityFail: 'common practice, from memory (medium): upper end of the 40–50 kA/mm band',
-  contactForcePerAmpere: 'common practice: about 1 gram-force per ampere (often attributed to R. A. Marshall; from memory, medium)',
+  contactForcePerAmpere: 'common practice: about 1 gram-force of total contact force per ampere of peak current for solid armatures, a rule of the trade with no single published source',
   railSeparatingForcePerLength: 'containment rating given in the scenario',
   peakAcceleration: 'payload limit given in the scenario',
   ratedReversal: 'common practice: pulse-discharge capacitors are commonly rated for 10–20 % reversal',

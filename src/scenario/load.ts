@@ -215,6 +215,7 @@ function normalise(read: Record<string, unknown>): Scenario {
     );
   };
   const drag = (read.drag as Record<string, number> | null | undefined) ?? null;
+  const record = read.record as Record<string, string> | null | undefined;
   const load = read.load as { kind: 'short'; inductance: number; resistance: number } | null | undefined;
   if (load) {
     // a ring-down: no bore, no armature; the launch sections hold zeros that nothing reads
@@ -228,12 +229,14 @@ function normalise(read: Record<string, unknown>): Scenario {
       friction: { coefficient: 0, staticCoefficient: 0, preload: 0, magneticLoading: 0 },
       drag: null,
       load: { kind: 'short', inductance: load.inductance, resistance: load.resistance },
+      ...(record ? { record } : {}),
       solver: solverOptions({ ...sectionDefaults('solver'), ...(solver ?? {}) }),
     };
   }
   return {
     name: read.name as string,
     description: (read.description as string | undefined) ?? '',
+    ...(record ? { record: { ...record } } : {}),
     bank,
     feed: read.feed as unknown as Scenario['feed'],
     rails: { ...(read.rails as Record<string, unknown>), resistanceGradient: (read.rails as Record<string, number>).resistanceGradient ?? 0 } as unknown as Scenario['rails'],

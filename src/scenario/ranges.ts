@@ -2,22 +2,13 @@
  * Plausible ranges (src/scenario/fields.ts) in words, and the check of a value against one. A value exactly at
  * a bound is within the range: every comparison here is inclusive unless the field says its lower bound is not.
  */
-import { formatSI } from '../units/format.js';
+import { formatQuantity } from '../units/format.js';
 import type { IntegerField, QuantityField, Range } from './fields.js';
 
-/** Units a metric prefix reads well on; compound units with powers are written as plain SI numbers. */
-const PREFIXABLE = new Set(['F', 'V', 'Ω', 'H', 'H/m', 'Ω/m', 'm', 's', 'N', 'A', 'm/s', 'J']);
-
-/** A bound or value with its unit, for messages: 1e-12 F → "1 pF", 1e5 kg → "100 t". */
+/** A bound or value with its unit, for messages, written by the one formatter without trailing zeros: 1e-12 F → "1 pF". */
 export function formatBound(value: number, unit: string): string {
   if (!Number.isFinite(value)) return String(value);
-  if (unit === 'kg' && Math.abs(value) >= 1e-15 && Math.abs(value) < 1e12) {
-    if (value >= 1e3) return `${trim(formatSI(value / 1e3, 't', 4))}`;
-    return trim(formatSI(value * 1e3, 'g', 4));
-  }
-  const magnitude = Math.abs(value);
-  if (PREFIXABLE.has(unit) && magnitude >= 1e-12 && magnitude < 1e15) return trim(formatSI(value, unit, 4));
-  return `${value}${unit ? ` ${unit}` : ''}`;
+  return trim(formatQuantity(value, unit));
 }
 
 /** "1.000 pF" → "1 pF", "2.500 kV" → "2.5 kV". */

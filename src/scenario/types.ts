@@ -108,9 +108,19 @@ export interface SolverOptions {
   maxSteps: number;
 }
 
+/** How the lab files a shot (scenario `record` section); text only, no effect on the simulation. */
+export interface ShotFiling {
+  shotId?: string;
+  operator?: string;
+  reviewer?: string;
+  notes?: string;
+}
+
 export interface Scenario {
   name: string;
   description: string;
+  /** present when the scenario has a `record` section */
+  record?: ShotFiling;
   bank: ModuleGroup[];
   feed: Feed;
   rails: Rails;

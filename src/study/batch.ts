@@ -2,10 +2,11 @@
  * Run a batch of study points and format their rows. Shared by the worker threads and the in-process runner;
  * worker-safe (imports no units and no mathjs).
  */
+import { assessShot } from '../checks/assess.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
 import { parsePath, setPath, type PathStep } from '../scenario/paths.js';
-import { csvLine, jsonLine, rowLayout, rowObject, type RowLayout } from './rows.js';
+import { csvLine, jsonLine, rowObject, studyLayout, type RowLayout } from './rows.js';
 
 export type RunShot = (scenario: Scenario, options?: { waveforms?: boolean }) => Shot;
 
@@ -39,7 +40,7 @@ export interface BatchRunner {
 }
 
 export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchRunner {
-  const layout = rowLayout(context.paths, context.scenario.bank.length);
+  const layout = studyLayout(context.scenario, context.paths);
   const steps: PathStep[][] = context.paths.map((path) => parsePath(path)!);
   const dimensions = steps.length;
   return {
@@ -59,7 +60,9 @@ export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchR
           const scenario = structuredClone(context.scenario);
           steps.forEach((step, d) => setPath(scenario, step, values[d]!));
           try {
-            row = rowObject(layout, index, values, runShot(scenario, { waveforms: false }).results);
+            const shot = runShot(scenario, { waveforms: false });
+            // the same assessment every command reads: the point's verdicts are the record's verdicts
+            row = rowObject(layout, index, values, shot.results, undefined, assessShot(scenario, shot));
           } catch (error) {
             row = rowObject(layout, index, values, null, error instanceof Error ? error.message : String(error));
           }

@@ -6,6 +6,7 @@ import { closeSync, existsSync, ftruncateSync, linkSync, openSync, readdirSync, 
 import { basename, dirname, join } from 'node:path';
 import { createHash } from 'node:crypto';
 import { InputError } from '../core/errors.js';
+import type { BankHazard } from '../checks/hazard.js';
 import type { DesignKind } from './design.js';
 
 export const MANIFEST_FILE = 'study.json';
@@ -32,6 +33,11 @@ export interface StudyManifest {
   created: string;
   /** the shard directories a merged study was joined from */
   mergedFrom?: string[];
+  /**
+   * The bank at the design's extremes (each group's largest count, capacitance and charge voltage over the varied
+   * values): an upper bound on what any point stores, for the safety banner of the study page.
+   */
+  safety?: BankHazard;
 }
 
 export const SHARD_RULE = 'index % count == shard - 1';

@@ -7,8 +7,9 @@ import type { Scenario } from '../scenario/types.js';
 import { makeDesign, type DesignKind } from './design.js';
 import { MANIFEST_FORMAT, SHARD_RULE, defaultStudyDir, type ShardSpec, type StudyManifest } from './output.js';
 import { setPath } from '../scenario/paths.js';
-import { rowLayout } from './rows.js';
-import { parseVaries, type DimensionOf } from './spec.js';
+import { studyLayout } from './rows.js';
+import { parseVaries, type Axis, type DimensionOf } from './spec.js';
+import { bankHazard, type BankHazard } from '../checks/hazard.js';
 import type { SweepPlan } from './sweep.js';
 
 export interface SweepChoices {
@@ -48,6 +49,20 @@ export function parseWholeNumber(option: string, text: string, min: number): num
   return value;
 }
 
+/** The bank with each group at its largest count, capacitance and charge voltage over the design: an upper bound. */
+export function designSafety(scenario: Scenario, axes: readonly Axis[]): BankHazard {
+  const largest = (path: string, base: number): number => {
+    const axis = axes.find((a) => a.path === path);
+    return axis ? Math.max(axis.max, ...axis.values) : base;
+  };
+  const bank = scenario.bank.map((group, i) => ({
+    count: largest(`bank[${i}].count`, group.count),
+    capacitance: largest(`bank[${i}].capacitance`, group.capacitance),
+    voltage: largest(`bank[${i}].voltage`, group.voltage),
+  }));
+  return bankHazard(bank, scenario.limits);
+}
+
 export function makeSweepPlan(choices: SweepChoices): SweepPlan {
   const axes = parseVaries(choices.vary, choices.scenario, choices.dimensionOf);
   const design = makeDesign(axes, { kind: choices.design ?? 'grid', samples: choices.samples, seed: choices.seed ?? 1 });
@@ -62,8 +77,9 @@ export function makeSweepPlan(choices: SweepChoices): SweepPlan {
     design: { kind: design.kind, samples: design.kind === 'grid' ? null : design.count, seed: design.seed },
     points: design.count,
     shard: shard ? { ...shard, rule: SHARD_RULE } : null,
-    columns: rowLayout(axes.map((axis) => axis.path), choices.scenario.bank.length).columns,
+    columns: studyLayout(choices.scenario, axes.map((axis) => axis.path)).columns,
     created: (choices.now ?? new Date()).toISOString(),
+    safety: designSafety(choices.scenario, axes),
   };
   const outDir = choices.out ?? defaultStudyDir(manifest, choices.now ?? new Date(), choices.studiesRoot);
   return { scenario: choices.scenario, design, manifest, outDir, resume: choices.resume ?? false };

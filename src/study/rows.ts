@@ -1,11 +1,17 @@
 /**
- * One study point as a line of points.jsonl and a line of points.csv. Worker-safe (no units, no mathjs).
+ * One study point as a line of points.jsonl and a line of points.csv. Worker-safe (no unit parser, no mathjs).
  *
- * JSONL row: {"index":…, "<path>": SI value for each varied path, …the shot's results with the keys of --json}, or
- * {"index":…, "<path>":…, "error": "…"} for a point that could not be run. CSV: the same, nested result keys
- * flattened with dots and brackets (energy.losses.rails, modules[0].reversal), an `error` column last.
- * The CSV line is always made from the row object, so a line rebuilt from points.jsonl is byte-identical.
+ * JSONL row: {"index":…, "<path>": SI value for each varied path, …the shot's results with the keys of --json,
+ * "verdict": the point's status (the worst of its checks and warnings: pass, warn or fail), "verdicts": {check id:
+ * verdict}, "warnings": [warning ids]}, or {"index":…, "<path>":…, "error": "…"} for a point that could not be run.
+ * CSV: the same, nested keys flattened with dots and brackets (energy.losses.rails, modules[0].reversal,
+ * verdicts.peak-acceleration), the warnings joined by ";", an `error` column last. The verdicts come from the
+ * assessment every command reads (src/checks/assess.ts). The CSV line is always made from the row object, so a line
+ * rebuilt from points.jsonl is byte-identical.
  */
+import type { Assessment } from '../checks/assess.js';
+import { checkIdsFor } from '../checks/shotChecks.js';
+import type { Scenario } from '../scenario/types.js';
 import { LOSS_KEYS, type ShotResults } from '../solve/types.js';
 import { getPath, parsePath, type PathStep } from '../scenario/paths.js';
 
@@ -13,9 +19,15 @@ export interface RowLayout {
   /** the varied paths, in --vary order */
   paths: string[];
   groupCount: number;
+  /** the check ids with a verdict column, in the checks' order */
+  checkIds: string[];
   /** every CSV column, in order */
   columns: string[];
 }
+
+export const VERDICT_COLUMN = 'verdict';
+export const VERDICTS_PREFIX = 'verdicts.';
+export const WARNINGS_COLUMN = 'warnings';
 
 const SCALAR_RESULTS = [
   'outcome',
@@ -42,19 +54,42 @@ export function resultColumns(groupCount: number): string[] {
   return [...SCALAR_RESULTS, ...modules];
 }
 
-export function rowLayout(paths: string[], groupCount: number): RowLayout {
-  return { paths, groupCount, columns: ['index', ...paths, ...resultColumns(groupCount), 'error'] };
+export function rowLayout(paths: string[], groupCount: number, checkIds: string[] = []): RowLayout {
+  return {
+    paths,
+    groupCount,
+    checkIds,
+    columns: ['index', ...paths, ...resultColumns(groupCount), VERDICT_COLUMN, ...checkIds.map((id) => `${VERDICTS_PREFIX}${id}`), WARNINGS_COLUMN, 'error'],
+  };
+}
+
+/** The layout of a study of `scenario` varying `paths`: its result columns and a verdict column per check. */
+export function studyLayout(scenario: Scenario, paths: string[]): RowLayout {
+  return rowLayout(paths, scenario.bank.length, checkIdsFor(scenario, paths));
 }
 
 export type RowObject = Record<string, unknown>;
 
-export function rowObject(layout: RowLayout, index: number, values: ArrayLike<number>, results: ShotResults | null, error?: string): RowObject {
+export function rowObject(
+  layout: RowLayout,
+  index: number,
+  values: ArrayLike<number>,
+  results: ShotResults | null,
+  error?: string,
+  assessment?: Pick<Assessment, 'checks' | 'warnings' | 'status'>,
+): RowObject {
   const row: RowObject = { index };
   layout.paths.forEach((path, d) => {
     row[path] = values[d];
   });
-  if (results) Object.assign(row, results);
-  else row.error = (error ?? 'failed').replace(/\s+/g, ' ').trim();
+  if (results) {
+    Object.assign(row, results);
+    if (assessment) {
+      row[VERDICT_COLUMN] = assessment.status.verdict;
+      row.verdicts = Object.fromEntries(assessment.checks.map((check) => [check.id, check.verdict]));
+      row[WARNINGS_COLUMN] = assessment.warnings.map((warning) => warning.id);
+    }
+  } else row.error = (error ?? 'failed').replace(/\s+/g, ' ').trim();
   return row;
 }
 
@@ -82,7 +117,17 @@ export function csvLine(layout: RowLayout, row: RowObject): string {
     steps = makeResultSteps(layout);
     stepsCache.set(layout, steps);
   }
-  const cells = [csvCell(row.index), ...layout.paths.map((path) => csvCell(row[path])), ...steps.map((step) => csvCell(getPath(row, step))), csvCell(row.error)];
+  const verdicts = (row.verdicts ?? {}) as Record<string, unknown>;
+  const warnings = Array.isArray(row[WARNINGS_COLUMN]) ? (row[WARNINGS_COLUMN] as unknown[]).join(';') : undefined;
+  const cells = [
+    csvCell(row.index),
+    ...layout.paths.map((path) => csvCell(row[path])),
+    ...steps.map((step) => csvCell(getPath(row, step))),
+    csvCell(row[VERDICT_COLUMN]),
+    ...layout.checkIds.map((id) => csvCell(verdicts[id])),
+    csvCell(warnings),
+    csvCell(row.error),
+  ];
   return `${cells.join(',')}\n`;
 }
 

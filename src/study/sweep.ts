@@ -31,7 +31,7 @@ import {
 import { setPath } from '../scenario/paths.js';
 import { makeWorkerPool, type PointRunner } from './pool.js';
 import { silentProgress, type ProgressSink } from './progress.js';
-import { csvHeader, csvLine, rowLayout, type RowLayout } from './rows.js';
+import { csvHeader, csvLine, studyLayout, type RowLayout } from './rows.js';
 
 export interface SweepPlan {
   /** the base scenario, SI, parsed once in the main thread */
@@ -89,7 +89,7 @@ export function defaultWorkerUrl(): URL {
 
 export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Promise<SweepSummary> {
   const started = performance.now();
-  const layout = rowLayout(plan.design.axes.map((axis) => axis.path), plan.scenario.bank.length);
+  const layout = studyLayout(plan.scenario, plan.design.axes.map((axis) => axis.path));
   const positions = shardPositions(plan.design.count, plan.manifest.shard);
   // A folder that holds this very study (a requeued or resubmitted cluster task, a second run of the same command)
   // is continued, never refused and never overwritten; one that holds anything else is refused.

@@ -1,6 +1,6 @@
 /**
  * The message loop of a sweep worker thread, with the shot function injected (the real one in worker.ts, a test
- * double in the tests). Worker-safe: no units, no mathjs.
+ * double in the tests). Worker-safe: no unit parser, no mathjs.
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import { makeBatchRunner, type BatchContext, type BatchRequest, type RunShot } from './batch.js';

@@ -75,8 +75,9 @@ describe('rail heating (adiabatic through the penetration layer, derived)', () =
 describe('linear current density (common practice, 40–50 kA/mm)', () => {
   const geometry = { kind: 'rectangular' as const, height: 0.01, width: 0.01, separation: 0.01 };
   const verdictAt = (kAperMm: number) => check({ results: results({ peakCurrent: kAperMm * 1e6 * 0.01 }), rails: { geometry } }, 'linear-current-density');
-  it('is peak current per rail height; passes below 40, warns from 40, fails from 50 kA/mm', () => {
+  it('is peak current per rail height; passes below 40, warns from 40, fails from 50 kA/mm (limit 50, warnAt 40, at most)', () => {
     expect(verdictAt(30).value).toBeCloseTo(30e6, 3);
+    expect(verdictAt(30)).toMatchObject({ limit: 50e6, warnAt: 40e6, direction: 'at-most' });
     expect(verdictAt(39.9).verdict).toBe('pass');
     expect(verdictAt(40.1).verdict).toBe('warn');
     expect(verdictAt(49.9).verdict).toBe('warn');
@@ -85,8 +86,9 @@ describe('linear current density (common practice, 40–50 kA/mm)', () => {
 });
 
 describe('solid-armature contact force (common practice: 1 gf per ampere)', () => {
-  it('passes at or above 9.80665 mN per ampere of peak current, warns below', () => {
+  it('passes at or above 9.80665 mN per ampere of peak current, warns below (a minimum: direction at-least)', () => {
     const at = (preload: number) => check({ results: results({ peakCurrent: 100e3 }), contact: { preload, magneticLoading: 1e-7 } }, 'contact-force');
+    expect(at(0).direction).toBe('at-least');
     // magnetic part: 1e-7 × (1e5)² = 1000 N; the rule asks 980.665 N
     expect(at(0).value).toBeCloseTo(1000, 9);
     expect(at(0).limit).toBeCloseTo(980.665, 9);
@@ -104,7 +106,9 @@ describe('rail separating force', () => {
     const exact = (MU0 * I * I) / (2 * Math.PI * Math.sqrt(30e-3 ** 2 - 4 * 2e-3 ** 2));
     expect(Math.abs(c.value / exact - 1)).toBeLessThan(1e-3);
     expect(c.value).toBeGreaterThan((MU0 * I * I) / (2 * Math.PI * 30e-3));
-    expect(c.verdict).toBe('pass');
+    // no containment rating given: a figure for information, not a pass
+    expect(c.verdict).toBe('info');
+    expect(c.direction).toBe('at-most');
     expect(c.note).toMatch(/no limit given/);
   });
   it('flat rails close together: at least the Ampère figure at the centre distance', () => {
@@ -120,10 +124,11 @@ describe('rail separating force', () => {
 });
 
 describe('peak acceleration against a payload limit', () => {
-  it('passes with "no limit given" when the scenario has none', () => {
+  it('is "info" (no verdict) when the scenario gives no limit, never a pass', () => {
     const c = check({}, 'peak-acceleration');
-    expect(c.verdict).toBe('pass');
+    expect(c.verdict).toBe('info');
     expect(c.limit).toBeNull();
+    expect(c.direction).toBe('at-most');
     expect(c.note).toMatch(/no limit given/);
   });
   it('passes at the limit and fails above it', () => {
@@ -157,24 +162,29 @@ describe('capacitor hazard classes (published: DOE-HDBK-1092)', () => {
     const all = engineeringChecks({ results: results(), bank: bankAt(voltage, energy) });
     return [all.find((c) => c.id === 'capacitor-shock-hazard')!, all.find((c) => c.id === 'capacitor-arc-flash-hazard')!];
   };
-  it('shock hazard from 100 V and 10 J', () => {
-    expect(verdicts(100, 10.01)[0]!.verdict).toBe('warn');
-    expect(verdicts(100, 9.99)[0]!.verdict).toBe('pass');
-    expect(verdicts(99.9, 50)[0]!.verdict).toBe('pass');
+  it('shock hazard from 100 V and 10 J; below the thresholds a class is "info", never a pass', () => {
+    expect(verdicts(100, 10.01)[0]!).toMatchObject({ verdict: 'warn', hazardClass: 'shock', direction: null });
+    expect(verdicts(100, 9.99)[0]!).toMatchObject({ verdict: 'info', hazardClass: null });
+    expect(verdicts(99.9, 50)[0]!).toMatchObject({ verdict: 'info', hazardClass: null });
     expect(verdicts(100, 10.01)[0]!.note).toMatch(/SHOCK HAZARD.*local codes/);
   });
   it('thermal hazard below 100 V above 100 J', () => {
-    expect(verdicts(99.9, 100.1)[0]!.verdict).toBe('warn');
+    expect(verdicts(99.9, 100.1)[0]!).toMatchObject({ verdict: 'warn', hazardClass: 'thermal' });
     expect(verdicts(99.9, 100.1)[0]!.note).toMatch(/THERMAL/);
-    expect(verdicts(99.9, 99.9)[0]!.verdict).toBe('pass');
+    expect(verdicts(99.9, 99.9)[0]!.verdict).toBe('info');
   });
-  it('arc-flash hazard from 100 V and 10 kJ; a lethal bank is never passed silently', () => {
+  it('arc-flash hazard from 100 V and 10 kJ; a lethal bank is never passed (the bench demo: 9.92 kJ at 6.3 kV)', () => {
     const [shock, arc] = verdicts(10e3, 50e3);
     expect(shock!.verdict).toBe('warn');
-    expect(arc!.verdict).toBe('warn');
+    expect(arc!).toMatchObject({ verdict: 'warn', hazardClass: 'arc-flash' });
     expect(arc!.note).toMatch(/ARC-FLASH HAZARD.*Charged capacitor banks can kill/);
-    expect(verdicts(1000, 9.99e3)[1]!.verdict).toBe('pass');
+    const [benchShock, benchArc] = verdicts(6300, 9.92e3);
+    expect(benchShock!).toMatchObject({ verdict: 'warn', hazardClass: 'shock' });
+    expect(benchArc!).toMatchObject({ verdict: 'info', hazardClass: null });
     expect(verdicts(1000, 10.01e3)[1]!.verdict).toBe('warn');
+    for (const voltage of [50, 100, 1000, 10e3]) for (const energy of [1, 50, 500, 5e3, 5e4]) {
+      expect(verdicts(voltage, energy).map((c) => c.verdict)).not.toContain('pass');
+    }
   });
   it('counts every module of a group in the stored energy', () => {
     const all = engineeringChecks({ results: results(), bank: [{ label: 'g', count: 4, capacitance: 1e-3, voltage: 1000 }] });
@@ -189,5 +199,24 @@ describe('limits from a scenario', () => {
     expect(() => validateLimits({ ratedReversal: -0.1 })).toThrow(/limits\.ratedReversal/);
     expect(() => validateLimits({ actionWarnFraction: 1.5 })).toThrow(/limits\.actionWarnFraction/);
     expect(() => validateLimits({ linearCurrentDensityFail: DEFAULT_LIMITS.linearCurrentDensityWarn / 2 })).toThrow(/linearCurrentDensityFail/);
+  });
+});
+
+describe('every check states how it is judged', () => {
+  it('a limited check has a direction; a hazard class has none but a class', () => {
+    const geometry = { kind: 'rectangular' as const, height: 0.02, width: 0.02, separation: 0.02 };
+    const all = engineeringChecks({
+      results: results(),
+      bank: [{ label: 'g', count: 1, capacitance: 1e-3, voltage: 5000 }],
+      rails: { geometry, material: copper, characteristicTime: 0.3e-3 },
+      armature: { currentArea: 1e-4, material: copper },
+      contact: { preload: 100, magneticLoading: 0 },
+    });
+    for (const c of all) {
+      if (/hazard$/.test(c.id)) expect(c.direction, c.id).toBeNull();
+      else expect(['at-most', 'at-least'], c.id).toContain(c.direction);
+      expect(['pass', 'warn', 'fail', 'info'], c.id).toContain(c.verdict);
+    }
+    expect(all.filter((c) => c.direction === 'at-least').map((c) => c.id)).toEqual(['contact-force']);
   });
 });

@@ -77,15 +77,17 @@ describe('units as people write them', () => {
     for (const v of outputs) expect(v).toBeCloseTo(outputs[0]!, 9);
   });
 
-  it('--json prints the results object of the model contract, then the checks', () => {
+  it('--json prints the results object of the model contract, then the checks, the status and the warnings', () => {
     const result = runWith('json-keys', JSON.stringify(base));
     expect(result.status).toBe(0);
     const results = JSON.parse(result.stdout);
-    // the contract's keys in its order, then the engineering checks (no geometry here, so no railsDerived)
+    // the contract's keys in its order, then the engineering checks, the status and the warnings (no geometry here,
+    // so no railsDerived)
     expect(Object.keys(results)).toEqual([
       'outcome', 'muzzleVelocity', 'exitTime', 'finalPosition', 'peakCurrent', 'peakCurrentTime', 'peakAcceleration',
-      'peakBreechVoltage', 'actionIntegral', 'efficiency', 'energy', 'modules', 'checks',
+      'peakBreechVoltage', 'actionIntegral', 'efficiency', 'energy', 'modules', 'checks', 'status', 'warnings',
     ]);
+    expect(Object.keys(results.status)).toEqual(['verdict', 'checks', 'warnings', 'hazardClasses', 'failing', 'warning']);
     expect(Object.keys(results.energy)).toEqual(['initial', 'capacitors', 'magnetic', 'magneticRails', 'kinetic', 'losses', 'residual']);
     expect(Object.keys(results.energy.losses)).toEqual(['bank', 'crowbar', 'modules', 'feed', 'rails', 'armature', 'contacts', 'arc', 'friction', 'drag']);
   });

@@ -33,9 +33,9 @@ describe('a scenario given only by geometry and materials', () => {
     const ids = out.checks.map((c: { id: string }) => c.id);
     expect(ids).toEqual(expect.arrayContaining(['armature-action', 'rail-heating', 'linear-current-density', 'contact-force', 'rail-separating-force', 'peak-acceleration']));
     for (const check of out.checks) {
-      expect(['pass', 'warn', 'fail']).toContain(check.verdict);
+      expect(['pass', 'warn', 'fail', 'info']).toContain(check.verdict);
       expect(check.source.length).toBeGreaterThan(10);
-      expect(Object.keys(check)).toEqual(expect.arrayContaining(['id', 'verdict', 'value', 'limit', 'unit', 'source']));
+      expect(Object.keys(check)).toEqual(expect.arrayContaining(['id', 'verdict', 'value', 'limit', 'direction', 'unit', 'source']));
     }
   });
 

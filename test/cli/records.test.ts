@@ -30,9 +30,11 @@ describe('railpulse run writes shot records', () => {
     expect(a).toBe(b);
     const embedded = readEmbedded(a!);
     const json = cli(['run', 'scenarios/bench-shot.json', '--json', '--no-report']);
-    const { checks, ...results } = JSON.parse(json.stdout);
+    const { checks, status, warnings, ...results } = JSON.parse(json.stdout);
     expect(embedded.results).toEqual(results);
     expect(embedded.checks).toEqual(checks);
+    expect(embedded.status).toEqual(status);
+    expect(embedded.warnings).toEqual(warnings.map((w: { message: string }) => w.message));
     expect(a).toContain("default-src 'none'");
   });
 

@@ -2,14 +2,15 @@
  * The archive index in Chromium: built from three reports (two real shots of small scenarios, one
  * synthetic), opened from file://, sorted by clicking headers and filtered by typing.
  */
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildArchiveIndex, scanReports } from '../../src/report/archive.js';
-import { buildShotReport } from '../../src/report/html.js';
+import { assessShot } from '../../src/checks/assess.js';
+import { buildShotReport, readEmbedded } from '../../src/report/html.js';
 import { scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import { reportBaseName, writeNewFile } from '../../src/output/write.js';
@@ -26,7 +27,9 @@ let scanWarnings: string[];
 
 function writeRealReport(raw: Record<string, unknown>, date: string): void {
   const scenario = scenarioFromRaw(structuredClone(raw));
-  const html = buildShotReport({ scenarioRaw: raw, scenario, shot: runShot(scenario), provenance: fixedProvenance(date), warnings: [] });
+  const shot = runShot(scenario);
+  const assessment = assessShot(scenario, shot);
+  const html = buildShotReport({ scenarioRaw: raw, scenario, shot, provenance: fixedProvenance(date), warnings: assessment.warnings.map((w) => w.message), checks: assessment.checks });
   writeNewFile(dir, reportBaseName(date, scenario.name, '1a2b3c4d'), 'html', html);
 }
 
@@ -35,6 +38,7 @@ beforeAll(async () => {
   writeRealReport(benchScenarioRaw('Larkspur light armature'), '2026-12-01T09:00:00.000Z');
   const heavy = benchScenarioRaw('Larkspur heavy armature');
   (heavy['armature'] as Record<string, unknown>)['mass'] = '20 g';
+  heavy['record'] = { shotId: 'LK-0042', operator: 'night shift (invented)', notes: 'heavier armature trial' };
   writeRealReport(heavy, '2026-12-02T09:00:00.000Z');
   const synthetic = syntheticReportInput({ name: 'Synthetic <check> & co', samples: 3000 });
   synthetic.provenance = fixedProvenance('2026-11-30T09:00:00.000Z');
@@ -104,9 +108,34 @@ describe('archive index in Chromium', () => {
     for (const href of hrefs) expect(href.startsWith(fileUrl.replace(/index\.html$/, ''))).toBe(true);
   });
 
-  it('saves a screenshot for a person to look at', async () => {
+  it('the first screen shows the safety banner, the status counts and the table with each record\'s status (screenshot of that screen)', async () => {
+    await page.locator('#filter').fill('');
+    await page.evaluate('window.scrollTo(0, 0)');
+    expect((await page.locator('#safety-banner').boundingBox())!.y).toBeGreaterThanOrEqual(0);
+    const box = async (selector: string) => (await page.locator(selector).boundingBox())!;
+    expect((await box('#safety-banner')).y).toBeLessThan((await box('#archive-status')).y);
+    expect((await box('#reports tbody tr:first-child')).y).toBeLessThan(page.viewportSize()!.height);
+    expect((await page.locator('#safety-banner').textContent())!).toMatch(/lethal stored energy[\s\S]*not a licence to fire/);
+    // each row's status is the one its record carries: the worst of its checks and warnings
+    const shown = await page.locator('#reports tbody tr').evaluateAll((rows) =>
+      rows.map((r) => ({ file: r.querySelector('[data-column="file"]')!.textContent, status: r.querySelector('[data-column="status"] .verdict')!.textContent })),
+    );
+    for (const row of shown) {
+      const report = readEmbedded(readFileSync(join(dir, row.file!), 'utf8'));
+      const worst = report.checks.some((c) => c.verdict === 'fail') ? 'fail' : report.checks.some((c) => c.verdict === 'warn') || report.warnings.length ? 'warn' : 'pass';
+      expect(row.status, row.file!).toBe(worst);
+    }
+    const counts = await page.locator('#archive-status').evaluate((p) => ['fail', 'warn', 'pass'].map((v) => Number(p.getAttribute(`data-${v}`))));
+    expect(counts.reduce((a, b) => a + b, 0)).toBe(readdirSync(dir).filter((f) => f.endsWith('.html') && f !== 'index.html').length);
+    // the filing fields are columns, and searchable
+    expect(await page.locator('#reports tbody td[data-column="shotId"]').allTextContents()).toContain('LK-0042');
+    await page.locator('#filter').fill('night shift');
+    expect(await page.locator('#reports tbody tr:visible').count()).toBe(1);
+    await page.locator('#filter').fill('');
+    await page.evaluate('window.scrollTo(0, 0)');
+    // the date in words beside the ISO time, in the reader's time zone
+    expect(await page.locator('#reports tbody td[data-column="date"] .local-date').first().textContent()).toMatch(/2026/);
     mkdirSync('test-output', { recursive: true });
-    await page.locator('#reports th[data-column="date"]').click();
-    await page.screenshot({ path: 'test-output/archive-index.png', fullPage: true });
+    await page.screenshot({ path: 'test-output/archive-index.png' });
   });
 });

@@ -52,6 +52,6 @@ describe('archive index', () => {
   });
 
   it('an empty archive is still a valid page', () => {
-    expect(buildArchiveIndex([])).toContain('<span id="shown">0</span> of 0 reports');
+    expect(buildArchiveIndex([])).toContain('<span id="shown">0</span> of 0 records');
   });
 });

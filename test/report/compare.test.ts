@@ -9,6 +9,7 @@ import {
   buildComparisonReport,
   comparedInputRows,
   comparisonBaseName,
+  marginOf,
   COMPARISON_ELEMENT_ID,
   COMPARISON_FORMAT,
   COMPARISON_PLOTS_ID,
@@ -80,26 +81,54 @@ describe('comparison report: inputs', () => {
 });
 
 describe('comparison report: outputs', () => {
-  it('marks the better value of every row in its stated direction', () => {
+  it('marks "better" only where it is defined: higher muzzle velocity and efficiency, never a lower peak figure', () => {
     const html = buildComparisonReport([base, heavy], PROVENANCE);
     const a = base.shot.results;
     const b = heavy.shot.results;
     // Same bank and rails, twice the mass: by the work-energy theorem ½mv² = ∫F dx over the same rails, and the
     // force ½L'I² changes little, so the heavier armature leaves slower and the light one is marked better.
     expect(b.muzzleVelocity).toBeLessThan(a.muzzleVelocity);
-    // Values within 0.1 % of each other tie (the stated rule): no mark.
     const tie = (x: number, y: number): boolean => Math.abs(x - y) <= 1e-3 * Math.max(Math.abs(x), Math.abs(y));
-    const lowerOf = (f: (r: ShotResults) => number): number[] => (tie(f(a), f(b)) ? [] : f(a) < f(b) ? [0] : [1]);
     const higherOf = (f: (r: ShotResults) => number): number[] => (tie(f(a), f(b)) ? [] : f(a) > f(b) ? [0] : [1]);
     expect(markedEntries(html, 'muzzleVelocity')).toEqual([0]);
     expect(markedEntries(html, 'efficiency')).toEqual(higherOf((r) => r.efficiency));
-    expect(markedEntries(html, 'peakCurrent')).toEqual(lowerOf((r) => r.peakCurrent));
-    expect(markedEntries(html, 'peakAcceleration')).toEqual(lowerOf((r) => r.peakAcceleration));
-    expect(markedEntries(html, 'actionIntegral')).toEqual(lowerOf((r) => r.actionIntegral));
-    expect(markedEntries(html, 'arcEnergy')).toEqual(lowerOf((r) => r.energy.magneticRails));
-    expect(markedEntries(html, 'exitTime')).toEqual([]);
-    expect(ownMarkup(html)).toMatch(/data-output="peakCurrent" data-direction="lower"><td>Peak current<\/td><td class="note">lower is better/);
+    // a lower peak current, acceleration, action or arc energy is not better in itself (the weakest shot has them)
+    for (const key of ['peakCurrent', 'peakAcceleration', 'actionIntegral', 'arcEnergy', 'exitTime', 'maxReversal']) {
+      expect(markedEntries(html, key), key).toEqual([]);
+      expect(ownMarkup(html)).toMatch(new RegExp(`data-output="${key}" data-direction="none"><td>[^<]*</td><td class="note">for reference`));
+    }
     expect(ownMarkup(html)).toMatch(/data-output="muzzleVelocity" data-direction="higher"><td>Muzzle velocity<\/td><td class="note">higher is better/);
+  });
+
+  it('states the efficiency difference in percentage points and other differences as relative changes', () => {
+    const html = ownMarkup(buildComparisonReport([base, heavy], PROVENANCE));
+    const a = base.shot.results;
+    const b = heavy.shot.results;
+    const row = (key: string): string => new RegExp(`<tr data-output="${key}"[^>]*>(.*?)</tr>`).exec(html)![1]!;
+    const points = (b.efficiency - a.efficiency) * 100;
+    const shownPoints = Number(/data-difference>([+-][\d.]+)\u00A0percentage points/.exec(row('efficiency'))![1]);
+    expect(shownPoints).toBeCloseTo(points, 3);
+    const relative = ((b.muzzleVelocity - a.muzzleVelocity) / a.muzzleVelocity) * 100;
+    const shownRelative = Number(/data-difference>([+-][\d.]+)\u00A0%/.exec(row('muzzleVelocity'))![1]);
+    expect(shownRelative / relative).toBeCloseTo(1, 3);
+  });
+
+  it('margins to the limits: (limit − value)/limit for a maximum, (value − limit)/limit for a minimum; more is better', () => {
+    expect(marginOf({ value: 80, limit: 100, direction: 'at-most' })).toBeCloseTo(0.2, 12);
+    expect(marginOf({ value: 120, limit: 100, direction: 'at-most' })).toBeCloseTo(-0.2, 12);
+    expect(marginOf({ value: 150, limit: 100, direction: 'at-least' })).toBeCloseTo(0.5, 12);
+    expect(marginOf({ value: 1, limit: null, direction: 'at-most' })).toBeNull();
+    expect(marginOf({ value: 1, limit: 10, direction: null })).toBeNull();
+    const checked = (e: ComparisonEntry, limit: number): ComparisonEntry => ({
+      ...e,
+      checks: [{ id: 'peak-acceleration', title: 'Peak acceleration', verdict: 'pass', value: e.shot.results.peakAcceleration, limit, direction: 'at-most', unit: 'm/s\u00B2', source: 'test' }],
+    });
+    const limit = 1.01 * Math.max(base.shot.results.peakAcceleration, heavy.shot.results.peakAcceleration);
+    const html = buildComparisonReport([checked(base, limit), checked(heavy, limit)], PROVENANCE);
+    const lower = base.shot.results.peakAcceleration < heavy.shot.results.peakAcceleration ? 0 : 1;
+    const row = new RegExp('<tr data-margin="peak-acceleration">(.*?)</tr>').exec(ownMarkup(html))![1]!;
+    const cells = [...row.matchAll(/<td([^>]*)>/g)].slice(2);
+    expect(cells.flatMap((c, i) => (c[1]!.includes('data-better="true"') ? [i] : []))).toEqual([lower]);
   });
 
   it('betterIndices: highest or lowest, ties (within 0.1 %) all marked, nothing when all tie, nulls never marked', () => {

@@ -3,6 +3,8 @@ import { jsonForScript } from '../../src/report/escape.js';
 import { shotWarnings } from '../../src/checks/warnings.js';
 import { buildShotReport, readEmbedded, STANDARD_GRAVITY } from '../../src/report/html.js';
 import { PLOTLY_PACKAGE, plotlyBundleSource } from '../../src/report/plotly-bundle.js';
+import { formatPercent } from '../../src/units/format.js';
+import { parseShownFigure } from './figure-text.js';
 import { fixedProvenance, syntheticReportInput } from './report-input.js';
 
 /** The report without the inlined plotly bundle, for searching our own markup. */
@@ -70,10 +72,10 @@ describe('shot report: content', () => {
     expect(figureSi(html, 'moduleInductorEnergy')).toBe(results.energy.magnetic - results.energy.magneticRails);
   });
 
-  it('states the acceleration in g with the standard gravity 9.80665 m/s² (SI Brochure)', () => {
+  it('states the acceleration in multiples of the standard gravity gₙ = 9.80665 m/s² (SI Brochure)', () => {
     expect(STANDARD_GRAVITY).toBe(9.80665);
-    const aside = /data-figure="peakAcceleration"[^>]*>[^<]*<\/span><span class="aside">([^<]*)\u00A0g /.exec(html)?.[1] ?? '';
-    const shown = Number(aside.replace(/\u2009/g, ''));
+    const aside = /data-figure="peakAcceleration"[^>]*>[^<]*<\/span><span class="aside">([^(<]*)\(/.exec(html)?.[1] ?? '';
+    const shown = parseShownFigure(aside.trim(), 'g\u2099');
     expect(shown / (results.peakAcceleration / STANDARD_GRAVITY)).toBeCloseTo(1, 3);
   });
 
@@ -94,9 +96,12 @@ describe('shot report: content', () => {
     expect(html).toContain('Energy (kJ)');
   });
 
-  it('the input table shows each value as written and in SI', () => {
-    expect(html).toMatch(/<td class="path">bank\[0\]\.voltage<\/td><td class="path">6 kV<\/td><td class="num path">6000\u00A0V<\/td>/);
-    expect(html).toMatch(/<td class="path">bank\[0\]\.esr<\/td><td class="default">default<\/td>/);
+  it('the input table shows each value as written and in SI, grouped by section', () => {
+    expect(html).toMatch(/<tr class="section-head" data-section="bank\[0\]"><th colspan="3">Bank group 1 \(group 1\)<\/th><\/tr>/);
+    expect(html).toMatch(/<tr data-path="bank\[0\]\.voltage"><td class="key">voltage<\/td><td class="path">6 kV<\/td><td class="num">6000\u00A0V<\/td><\/tr>/);
+    expect(html).toMatch(/<tr data-path="bank\[0\]\.capacitance"><td class="key">capacitance<\/td><td class="path">300 uF<\/td><td class="num">3\u00A0\u00D7\u00A010\u207B\u2074\u00A0F<\/td><\/tr>/);
+    expect(html).toMatch(/<tr data-path="bank\[0\]\.esr"><td class="key">esr<\/td><td class="default">default<\/td>/);
+    expect(html).not.toContain('data-path="$schema"');
   });
 
   it('is self-contained: CSP forbids every fetch, and no element loads anything', () => {
@@ -139,7 +144,7 @@ describe('shot report: warnings', () => {
     const input = syntheticReportInput({ groups: 2 }); // group 2 has no crowbar
     const reversal = input.shot.results.modules[1]!.reversal;
     expect(reversal).toBeGreaterThan(0);
-    expect(withWarnings(input)).toContain(`reverses to ${(reversal * 100).toFixed(1)} % of its`);
+    expect(withWarnings(input)).toContain(`reverses to ${formatPercent(reversal)} of its`);
   });
 
   it('the caller\'s warnings are shown, and a repeated one only once', () => {
@@ -158,7 +163,7 @@ describe('shot report: determinism and size', () => {
     input.provenance = fixedProvenance('2027-01-01T00:00:00.000Z');
     const c = buildShotReport(input);
     expect(c).not.toBe(a);
-    expect(c.replaceAll('2027-01-01T00:00:00.000Z', '2026-12-02T10:00:00.000Z')).toBe(a);
+    expect(c.replaceAll('2027-01-01T00:00:00.000Z', '2026-12-02T10:00:00.000Z').replaceAll('Fri 1 Jan 2027, 00:00 UTC', 'Wed 2 Dec 2026, 10:00 UTC')).toBe(a);
   });
 
   it('a multi-group shot (10k samples, 8 groups: 30+ series) stays under 6 MB', () => {

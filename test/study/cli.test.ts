@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadScenarioFile } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
-import { csvLine, rowLayout } from '../../src/study/rows.js';
+import { csvLine, studyLayout } from '../../src/study/rows.js';
 import { TWO_GROUP_FILE } from './fixtures.js';
 
 // Until src/cli/main.ts registers the study commands, the tests run them through a small entry of their own.
@@ -68,7 +68,7 @@ describe('study commands', () => {
     expect(summary.resumedFrom + summary.ran).toBe(400);
     const rows = readFileSync(jsonl, 'utf8').trimEnd().split('\n').map((line) => JSON.parse(line) as Record<string, unknown>);
     expect(rows.map((row) => row.index)).toEqual(Array.from({ length: 400 }, (_, i) => i));
-    const layout = rowLayout(['bank[0].voltage', 'armature.mass'], 2);
+    const layout = studyLayout(loadScenarioFile(TWO_GROUP_FILE).scenario, ['bank[0].voltage', 'armature.mass']);
     const csv = readFileSync(join(out, 'points.csv'), 'utf8').split('\n');
     expect(csv.slice(1).join('\n')).toBe(rows.map((row) => csvLine(layout, row)).join(''));
     expect(existsSync(join(out, 'study.html'))).toBe(true);

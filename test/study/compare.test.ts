@@ -18,6 +18,12 @@ describe('compare', () => {
     expect(shots[0]!.change.muzzleVelocity).toBeNull();
     // E0 = Σ ½ n C V² (4 modules × ½ · 500 µF · (3 kV)² = 9 kJ)
     expect(shots[0]!.storedEnergy).toBeCloseTo(9000, 9);
-    expect(compareTable(shots)).toMatch(/muzzle velocity \(m\/s\)/);
+    const table = compareTable(shots);
+    expect(table).toMatch(/muzzle velocity .* m\/s/);
+    // efficiency is a percentage: its change is a difference in percentage points, not a per cent of a per cent
+    const e0 = shots[0]!.results.efficiency;
+    const e1 = shots[1]!.results.efficiency;
+    expect(shots[1]!.change.efficiency).toBeCloseTo(e1 - e0, 15);
+    expect(table).toMatch(/efficiency .*percentage points\)/);
   });
 });

@@ -30,9 +30,9 @@ describe('study.html', () => {
     const markup = html.replace(/(<script[^>]*>)[\s\S]*?<\/script>/g, '$1</script>');
     expect(markup).not.toMatch(/<script[^>]+src=|<link[^>]+href=|<img[^>]+src="http/i);
     expect(html).toContain('Plotly');
-    const data = readJsonScriptElement(html.replace(/<script data-mode="[a-z]+" /, '<script '), 'study-data') as { total: number; failed: boolean[] };
+    const data = readJsonScriptElement(html, 'study-data') as { total: number; outcome: string[] };
     expect(data.total).toBe(6);
-    expect(data.failed.filter(Boolean).length).toBe(2);
+    expect(data.outcome.filter((o) => o === 'timeout').length).toBe(2);
     const one = readStudyPlotData(plan.outDir, { ...plan.manifest, vary: plan.manifest.vary.slice(0, 1) });
     expect(buildStudyReport({ ...plan.manifest, vary: plan.manifest.vary.slice(0, 1) }, one)).toContain('data-mode="line"');
   });

@@ -7,7 +7,8 @@ import { runShot } from '../../src/solve/shot.js';
 import { merge } from '../../src/study/merge.js';
 import { parsePath, setPath } from '../../src/scenario/paths.js';
 import { makeSweepPlan, type SweepChoices } from '../../src/study/plan.js';
-import { csvLine, rowLayout } from '../../src/study/rows.js';
+import { assessShot } from '../../src/checks/assess.js';
+import { csvLine, studyLayout } from '../../src/study/rows.js';
 import { runSweep } from '../../src/study/sweep.js';
 import { TWO_GROUP_FILE } from './fixtures.js';
 
@@ -49,14 +50,31 @@ describe('sweep', () => {
       const point = p.design.point(index);
       p.design.axes.forEach((axis, d) => setPath(scenario, parsePath(axis.path)!, point[d]!));
       const { index: rowIndex, ...rest } = rows[index]!;
-      const expected = { ...Object.fromEntries(p.design.axes.map((axis, d) => [axis.path, point[d]])), ...runShot(scenario, { waveforms: false }).results };
+      const shot = runShot(scenario, { waveforms: false });
+      // the verdicts come from the same assessment a shot record shows
+      const assessment = assessShot(scenario, shot);
+      const expected = {
+        ...Object.fromEntries(p.design.axes.map((axis, d) => [axis.path, point[d]])),
+        ...shot.results,
+        verdict: assessment.status.verdict,
+        verdicts: Object.fromEntries(assessment.checks.map((c) => [c.id, c.verdict])),
+        warnings: assessment.warnings.map((w) => w.id),
+      };
       expect(rowIndex).toBe(index);
       expect(rest).toEqual(JSON.parse(JSON.stringify(expected)));
     }
-    // CSV: header + one line a point, each rebuilt identically from its JSONL row
-    const layout = rowLayout(p.design.axes.map((axis) => axis.path), 2);
-    expect(referenceCsv.split('\n')[0]).toContain('energy.losses.rails');
-    expect(referenceCsv.split('\n')[0]).toContain('modules[1].reversal');
+    // CSV: header + one line a point, each rebuilt identically from its JSONL row; one verdict column a check id
+    const layout = studyLayout(loaded.scenario, p.design.axes.map((axis) => axis.path));
+    const header = referenceCsv.split('\n')[0]!.split(',');
+    expect(header).toContain('energy.losses.rails');
+    expect(header).toContain('modules[1].reversal');
+    expect(header.slice(header.indexOf('verdict'))).toEqual([
+      'verdict',
+      ...assessShot(loaded.scenario, runShot(loaded.scenario, { waveforms: false })).checks.map((c) => `verdicts.${c.id}`),
+      'warnings',
+      'error',
+    ]);
+    expect(header).toEqual(p.manifest.columns);
     expect(referenceCsv).toBe(readFileSync(join(p.outDir, 'points.csv'), 'utf8'));
     expect(referenceCsv.split('\n').slice(1).join('\n')).toBe(rows.map((row) => csvLine(layout, row)).join(''));
   });
@@ -135,9 +153,10 @@ describe('sweep', () => {
     expect(String(rows[1]!.error)).toMatch(/staticCoefficient|static/i);
   });
 
-  it('the worker bundle carries the solver but not the unit parser (mathjs costs ~1 s a thread to import)', () => {
+  it('the worker bundle carries the solver and the checks but not the unit parser (mathjs costs ~1 s a thread to import)', () => {
     const bundle = readFileSync(new URL('../../dist/sweep-worker.mjs', import.meta.url), 'utf8');
     expect(bundle).toContain('// src/solve/shot.ts');
-    expect(bundle).not.toMatch(/\/\/ (src\/units\/|node_modules\/mathjs)/);
+    expect(bundle).toContain('// src/checks/assess.ts');
+    expect(bundle).not.toMatch(/\/\/ (src\/units\/quantity|node_modules\/mathjs)/);
   });
 });
