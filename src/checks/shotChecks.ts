@@ -33,6 +33,8 @@ export function shotChecks(scenario: Scenario, results: ShotResults): Check[] {
  * the shot, except where a varied path changes it (a varied arc drop can make the armature solid or not).
  */
 export function checkIdsFor(scenario: Scenario, variedPaths: readonly string[] = []): string[] {
+  const bankChecks = [...scenario.bank.map((_, index) => `capacitor-reversal[${index}]`), 'capacitor-shock-hazard', 'capacitor-arc-flash-hazard'];
+  if (scenario.load) return bankChecks; // a ring-down: only the bank is judged (as in shotChecks)
   const geometry = scenario.rails.geometry;
   const mayBeSolid = scenario.armature.arcDrop === 0 || variedPaths.includes('armature.arcDrop');
   return [
@@ -42,9 +44,7 @@ export function checkIdsFor(scenario: Scenario, variedPaths: readonly string[] =
     ...(mayBeSolid ? ['contact-force'] : []),
     ...(geometry ? ['rail-separating-force'] : []),
     'peak-acceleration',
-    ...scenario.bank.map((_, index) => `capacitor-reversal[${index}]`),
-    'capacitor-shock-hazard',
-    'capacitor-arc-flash-hazard',
+    ...bankChecks,
   ];
 }
 

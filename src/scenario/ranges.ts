@@ -2,13 +2,13 @@
  * Plausible ranges (src/scenario/fields.ts) in words, and the check of a value against one. A value exactly at
  * a bound is within the range: every comparison here is inclusive unless the field says its lower bound is not.
  */
-import { formatQuantity } from '../units/format.js';
+import { formatQuantity, forTerminal } from '../units/format.js';
 import type { IntegerField, QuantityField, Range } from './fields.js';
 
 /** A bound or value with its unit, for messages, written by the one formatter without trailing zeros: 1e-12 F → "1 pF". */
 export function formatBound(value: number, unit: string): string {
   if (!Number.isFinite(value)) return String(value);
-  return trim(formatQuantity(value, unit));
+  return trim(forTerminal(formatQuantity(value, unit)));
 }
 
 /** "1.000 pF" → "1 pF", "2.500 kV" → "2.5 kV". */

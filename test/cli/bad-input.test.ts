@@ -33,7 +33,7 @@ const cases: [string, string, RegExp][] = [
   ['non-finite', variant((s) => { s.bank[0].voltage = 1e999; }).replace('Infinity', '1e999').replace('null', '1e999'), /bank\[0\]\.voltage: expected a voltage \(V\), got (Infinity|1e999)/],
   ['negative-capacitance', variant((s) => { s.bank[0].capacitance = '-450 uF'; }), /bank\[0\]\.capacitance: expected a capacitance from 1 pF to 10 F, got -450 µF/],
   ['zero-inductance', variant((s) => { s.feed.inductance = 0; }), /feed\.inductance: expected an inductance from 1 pH to 1 H, got 0 H/],
-  ['zero-mass', variant((s) => { s.armature.mass = '0 g'; }), /armature\.mass: expected a mass from 1 µg to 100 t, got 0 kg/],
+  ['zero-mass', variant((s) => { s.armature.mass = '0 g'; }), /armature\.mass: expected a mass from 1 µg to 100 Mg, got 0 g/],
   ['negative-friction', variant((s) => { s.friction.coefficient = -0.1; s.friction.staticCoefficient = 0.2; }), /friction\.coefficient: expected a friction coefficient ≥ 0 and ≤ 10, got -0\.1/],
   ['static-below-sliding', variant((s) => { s.friction.coefficient = 0.3; s.friction.staticCoefficient = 0.2; }), /friction\.staticCoefficient: expected a static coefficient ≥ the sliding coefficient \(0\.3\), got 0\.2/],
   ['short-rails', variant((s) => { s.rails.length = '1 cm'; }), /rails\.length: expected a rail length greater than the armature's initial position/],
