@@ -165,7 +165,7 @@ function checkReach(tolerance: Tolerance, scenario: Scenario, file?: string): vo
         validateScenario(probe);
       } catch (error) {
         if (!(error instanceof InputError)) throw error;
-        throw new InputError(`${tolerance.where}.${tolerance.distribution}`, `${target.path} at its nominal ${sign < 0 ? '−' : '+'} ${label} (${value.toPrecision(4)} SI) leaves the model's valid range (${error.message}); a spread must stay inside it`, file);
+        throw new InputError(`${tolerance.where}.${tolerance.distribution}`, `${target.path} at its nominal ${sign < 0 ? '−' : '+'} ${label} (${Number(value.toPrecision(4))} in SI) leaves the model's valid range (${error.message}); a spread must stay inside it`, file);
       }
     }
   }

@@ -19,6 +19,10 @@ export interface SizingTarget {
   muzzleVelocity?: number;
   /** J at exit (converted with the armature mass) */
   kineticEnergy?: number;
+  /** with tolerances or a calibration: the probability with which the target must be met (0 < p < 1) */
+  confidence?: number;
+  /** among designs of equal stored energy, prefer the lower peak current (default) or take the first found */
+  tieBreak?: 'peakCurrent' | 'none';
 }
 
 export interface SizingLimits {

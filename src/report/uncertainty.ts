@@ -1,0 +1,59 @@
+/**
+ * The uncertainty part of a shot record: each headline result with its standard uncertainty and interval, the
+ * inputs that spread it, and what the propagation found (outcome changes, nonlinear responses, a Monte Carlo).
+ * Builds HTML from values; the numbers come from src/study.
+ */
+import { escapeHtml } from './escape.js';
+import { formatPercent, formatQuantity, formatScientific } from './format.js';
+import type { WaveformBands } from './plots.js';
+
+export interface UncertaintyRow {
+  /** a headline key: muzzleVelocity, exitTime, peakCurrent, efficiency, peakAcceleration, actionIntegral */
+  key: string;
+  nominal: number | null;
+  /** one standard uncertainty (SI), null where it is not defined */
+  sigma: number | null;
+  /** the interval of the chosen coverage, when defined */
+  interval: [number, number] | null;
+}
+
+export interface RecordUncertainty {
+  /** how it was obtained, e.g. "linear propagation of 5 inputs, 21 shots" */
+  method: string;
+  /** what the interval column is, e.g. "95 % interval (±1.96σ, normal approximation)" */
+  intervalLabel: string;
+  rows: UncertaintyRow[];
+  /** each input as people read it, e.g. "bank[*].capacitance — uniform ±5 %, tolerance" */
+  inputs: string[];
+  /** warnings and further findings (a Monte Carlo summary), one sentence each */
+  notes: string[];
+  bands: WaveformBands | null;
+}
+
+const LABELS: Record<string, [label: string, show: (value: number | null) => string]> = {
+  muzzleVelocity: ['Muzzle velocity', (v) => formatQuantity(v, 'm/s', { prefix: false })],
+  exitTime: ['Exit time', (v) => formatQuantity(v, 's')],
+  peakCurrent: ['Peak current', (v) => formatQuantity(v, 'A')],
+  efficiency: ['Efficiency', (v) => formatPercent(v)],
+  peakAcceleration: ['Peak acceleration', (v) => formatScientific(v, 'm/s\u00B2')],
+  actionIntegral: ['Action integral \u222BI\u00B2dt', (v) => formatScientific(v, 'A\u00B2\u00B7s')],
+};
+
+export function uncertaintySection(uncertainty: RecordUncertainty): string {
+  const rows = uncertainty.rows
+    .map((row) => {
+      const [label, show] = LABELS[row.key] ?? [row.key, (v: number | null) => String(v)];
+      const interval = row.interval ? `${show(row.interval[0])} \u2026 ${show(row.interval[1])}` : '\u2014';
+      return `<tr data-uncertainty="${escapeHtml(row.key)}"${row.sigma === null ? '' : ` data-si="${row.sigma}"`}><td>${escapeHtml(label)}</td><td class="num">${show(row.nominal)}</td><td class="num">${row.sigma === null ? 'not defined' : `\u00B1\u00A0${show(row.sigma)}`}</td><td class="num">${interval}</td></tr>`;
+    })
+    .join('\n');
+  const inputs = uncertainty.inputs.map((input) => `<li>${escapeHtml(input)}</li>`).join('');
+  const notes = uncertainty.notes.map((note) => `<li>${escapeHtml(note)}</li>`).join('');
+  return `<section id="uncertainty"><h2>Uncertainty</h2>
+<p class="note">${escapeHtml(uncertainty.method)}.</p>
+<table class="uncertainty"><thead><tr><th>Result</th><th class="num">Nominal</th><th class="num">Standard uncertainty (1σ)</th><th class="num">${escapeHtml(uncertainty.intervalLabel)}</th></tr></thead>
+<tbody>${rows}</tbody></table>
+<p>Uncertain inputs:</p><ul class="uncertainty-inputs">${inputs}</ul>
+${notes ? `<ul class="uncertainty-notes">${notes}</ul>` : ''}
+</section>`;
+}
