@@ -26,7 +26,7 @@
 import { InputError } from '../core/errors.js';
 import { symmetricEigen } from '../core/eigen.js';
 import { QuantityError, toSI } from '../units/quantity.js';
-import { fieldAt } from './fields.js';
+import { fieldAt, quantityPaths } from './fields.js';
 import { getPath, parsePath, setPath } from './paths.js';
 import { didYouMean } from './suggest.js';
 import type { Calibration, Scenario, Tolerance, UncertainTarget } from './types.js';
@@ -66,7 +66,12 @@ export function uncertainPathProblem(scenario: Scenario, path: string): string |
   if (field?.kind === 'integer') return 'is a whole number (a module count); give tolerances on continuous values';
   if (/\.geometry\./.test(path)) return 'is a geometry input, turned into the model values when the file is read; give the tolerance on rails.inductanceGradient, rails.resistanceGradient, armature.mass or armature.resistance';
   if (path.endsWith('ratedReversal')) return 'is a rating for the checks and does not change the shot';
-  if (field?.kind !== 'quantity') return 'is not a model parameter of the scenario format';
+  if (field?.kind !== 'quantity') {
+    const pattern = path.replace(/\[\d+\]/g, '[n]');
+    const hint = didYouMean(pattern, quantityPaths());
+    const index = /\[(\d+)\]/.exec(path)?.[1] ?? '0';
+    return `is not a model parameter of the scenario format${hint ? ` (did you mean ${hint.replace(/\[n\]/g, `[${index}]`)}?)` : ''}`;
+  }
   const value = getPath(scenario, steps);
   if (typeof value !== 'number') {
     const index = steps[1];
@@ -144,9 +149,7 @@ function readTolerance(entry: unknown, where: string, scenario: Scenario, raw: R
     }
   }
   if (targets.length === 0) throw new InputError(`${where}.path`, `every value of ${path} is calibrated, so its uncertainty comes from the calibration; remove the tolerance`, file);
-  const tolerance: Tolerance = { where, path, distribution, spread, relative, common, targets };
-  checkReach(tolerance, scenario, file);
-  return tolerance;
+  return { where, path, distribution, spread, relative, common, targets };
 }
 
 /** The value must stay inside the model's valid range over the spread: ±a uniform, ±4σ normal. */
@@ -292,5 +295,6 @@ export function readUncertaintySections(scenario: Scenario, raw: Raw, file?: str
       }
     }
   }
+  for (const tolerance of tolerances) checkReach(tolerance, scenario, file);
   if (tolerances.length > 0) scenario.tolerances = tolerances;
 }
