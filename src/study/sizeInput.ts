@@ -115,5 +115,11 @@ export function readSizingInput(file: string): SizingInput {
     }
     limits.modulesPerGroup = count;
   }
-  return { scenario: scenarioFromRaw(raw, file), raw, sha256: createHash('sha256').update(source).digest('hex'), target, limits };
+  const scenario = scenarioFromRaw(raw, file);
+  scenario.calibration?.parameters.forEach((parameter, i) => {
+    if (/^bank\[\d+\]\.(voltage|trigger)$/.test(parameter.path)) {
+      throw new InputError(`calibration.parameters[${i}]`, `size sets every charge voltage and trigger time, so a calibration of ${parameter.path} cannot carry over to the sized design; remove it from the calibration`, file);
+    }
+  });
+  return { scenario, raw, sha256: createHash('sha256').update(source).digest('hex'), target, limits };
 }
