@@ -127,8 +127,9 @@ export function violationsOf(scenario: Scenario, results: ShotResults | null, li
 }
 
 /**
- * The least scale that reaches `velocity` at these triggers (Illinois on the bracketed root), or the trial at the
- * highest allowed scale when it cannot be reached. A root at exactly the voltage limit counts as reached.
+ * The least scale that reaches `velocity` at these triggers: the root of v(k) − velocity, accepted on its reaching
+ * side (0 ≤ v − velocity ≤ tolerance · velocity), by the Illinois method on a bracket; or the trial at the highest
+ * allowed scale when the target cannot be reached there.
  */
 function solveScale(ctx: SearchContext, triggers: readonly number[], start: number): { scale: number; results: ShotResults | null; reached: boolean } {
   const velocity = ctx.requirement.velocity;
@@ -137,44 +138,48 @@ function solveScale(ctx: SearchContext, triggers: readonly number[], start: numb
     const results = shot(ctx, scale, triggers);
     return { scale, results, f: (results?.muzzleVelocity ?? NaN) - velocity };
   };
+  const done = (trial: ReturnType<typeof at>, reached: boolean) => ({ scale: trial.scale, results: trial.results, reached });
+  const good = (f: number): boolean => f >= 0 && f <= accept;
   let a = at(Math.min(start, ctx.maxScale));
-  if (Math.abs(a.f) <= accept) return { scale: a.scale, results: a.results, reached: true };
-  if (!Number.isFinite(a.f)) return { scale: a.scale, results: a.results, reached: false };
+  if (good(a.f)) return done(a, true);
+  if (!Number.isFinite(a.f)) return done(a, false);
   // bracket, guessing the next scale from v ∝ k (a little beyond, so that one step usually brackets)
   let b = a;
-  for (let i = 0; i < 40 && Math.sign(a.f) === Math.sign(b.f); i++) {
+  for (let i = 0; i < 40 && (a === b || Math.sign(a.f) === Math.sign(b.f)); i++) {
+    if (b.f < 0 && b.scale >= ctx.maxScale) return done(b, false);
     const v = b.f + velocity;
     const guess = v > 0 ? Math.min(2, Math.max(0.5, (velocity / v) * (b.f < 0 ? 1.02 : 0.98))) : 1.5;
-    if (b.f < 0 && b.scale >= ctx.maxScale) return { scale: b.scale, results: b.results, reached: false };
     a = b;
     b = at(b.f < 0 ? Math.min(ctx.maxScale, b.scale * guess) : b.scale * guess);
-    if (!Number.isFinite(b.f)) return { scale: b.scale, results: b.results, reached: false };
-    if (Math.abs(b.f) <= accept) return { scale: b.scale, results: b.results, reached: true };
+    if (!Number.isFinite(b.f)) return done(b, false);
+    if (good(b.f)) return done(b, true);
   }
-  if (Math.sign(a.f) === Math.sign(b.f)) return { scale: b.scale, results: b.results, reached: false };
-  let fa = a.f;
-  let fb = b.f;
+  if (Math.sign(a.f) === Math.sign(b.f)) return done(b, b.f >= 0);
+  // keep `low` below the target and `high` above it
+  let [low, high] = a.f < 0 ? [a, b] : [b, a];
+  let fLow = low.f;
+  let fHigh = high.f;
   let side = 0;
   for (let i = 0; i < 60; i++) {
-    const secant = (a.scale * fb - b.scale * fa) / (fb - fa);
-    const inside = Number.isFinite(secant) && secant > Math.min(a.scale, b.scale) && secant < Math.max(a.scale, b.scale);
-    const c = at(inside ? secant : (a.scale + b.scale) / 2);
-    if (!Number.isFinite(c.f)) return { scale: c.scale, results: c.results, reached: false };
-    if (Math.abs(c.f) <= accept || Math.abs(b.scale - a.scale) <= 1e-12 * c.scale) return { scale: c.scale, results: c.results, reached: Math.abs(c.f) <= accept || c.f > 0 };
-    if (Math.sign(c.f) === Math.sign(fb)) {
-      b = c;
-      fb = c.f;
-      if (side === -1) fa /= 2;
-      side = -1;
-    } else {
-      a = c;
-      fa = c.f;
-      if (side === 1) fb /= 2;
+    const secant = (low.scale * fHigh - high.scale * fLow) / (fHigh - fLow);
+    const inside = Number.isFinite(secant) && secant > low.scale && secant < high.scale;
+    const c = at(inside ? secant : (low.scale + high.scale) / 2);
+    if (!Number.isFinite(c.f)) return done(c, false);
+    if (good(c.f)) return done(c, true);
+    if (c.f > 0) {
+      high = c;
+      fHigh = c.f;
+      if (side === 1) fLow /= 2;
       side = 1;
+    } else {
+      low = c;
+      fLow = c.f;
+      if (side === -1) fHigh /= 2;
+      side = -1;
     }
+    if (high.scale - low.scale <= 1e-12 * high.scale) break;
   }
-  const best = fb >= 0 ? b : a;
-  return { scale: best.scale, results: best.results, reached: best.f >= -accept };
+  return done(high, true);
 }
 
 /** A design at these triggers, with the voltage solved for the requirement. */
