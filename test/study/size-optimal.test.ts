@@ -7,6 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Scenario } from '../../src/scenario/types.js';
 import { runShot } from '../../src/solve/shot.js';
+import { propagateLinear } from '../../src/study/propagate.js';
 import { sizeBank } from '../../src/study/size.js';
 import { twoGroupScenario } from './fixtures.js';
 
@@ -90,5 +91,29 @@ describe('sizing against a brute-force grid (real solver)', () => {
         if (withinLimits) expect(moved.muzzleVelocity, `group ${g + 1} moved ${shift * 1e6} µs`).toBeLessThanOrEqual(velocity * (1 + 5e-4));
       }
     }
+  }, 300_000);
+});
+
+describe('sizing at a confidence', () => {
+  it('with tolerances the sized design exceeds the target by Φ⁻¹(0.9)·σ_v, σ_v re-propagated independently on the sized scenario (GUM §6.2, normal coverage)', () => {
+    const base = twoGroupScenario();
+    base.tolerances = [
+      { where: 'test', path: 'bank[*].capacitance', distribution: 'uniform', spread: 0.05, relative: true, common: false, targets: [0, 1].map((g) => ({ path: `bank[${g}].capacitance`, follows: [] })) },
+      { where: 'test', path: 'rails.inductanceGradient', distribution: 'normal', spread: 0.02, relative: true, common: false, targets: [{ path: 'rails.inductanceGradient', follows: [] }] },
+    ];
+    const result = sizeBank(base, { muzzleVelocity: TARGET, confidence: 0.9 }, { chargeVoltage: 10e3, modulesPerGroup: 2 }, runShot);
+    expect(result.confidence).toBe(0.9);
+    const sized = result.scenario!;
+    const linear = propagateLinear(sized, runShot)!;
+    const z = 1.2815515655446004; // Φ⁻¹(0.9), tables of the normal distribution
+    const atConfidence = linear.nominal.muzzleVelocity! - z * linear.standardUncertainty.muzzleVelocity!;
+    expect(atConfidence / TARGET - 1).toBeGreaterThanOrEqual(-1e-3);
+    expect(atConfidence / TARGET - 1).toBeLessThan(1e-3);
+    expect(linear.nominal.muzzleVelocity!).toBeGreaterThan(TARGET * 1.01);
+    expect(result.best!.confidence!.level).toBe(0.9);
+    // the same bank sized for the nominal shot stores less energy
+    const nominal = sizeBank({ ...base, tolerances: undefined }, { muzzleVelocity: TARGET }, { chargeVoltage: 10e3, modulesPerGroup: 2 }, runShot);
+    expect(nominal.best!.storedEnergy).toBeLessThan(result.best!.storedEnergy);
+    expect(nominal.confidence).toBeNull();
   }, 300_000);
 });
