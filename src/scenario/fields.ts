@@ -221,7 +221,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
   },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
   limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults, and the limits railpulse size must respect (peakCurrent, peakAcceleration, actionIntegral, reversal, chargeVoltage, modulesPerGroup)' },
-  target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }' },
+  target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }, with an optional "confidence" (0–1) and "tieBreak" ("peakCurrent" or "none")' },
   tolerances: {
     kind: 'raw',
     description: 'spreads of scenario values (src/scenario/uncertainty.ts): each entry a path (bank[*] for every group) with "uniform" (half-width ±a) or "normal" (σ), as a quantity or a percentage of the value',
