@@ -17,13 +17,11 @@
 import { interpolateSorted } from '../core/interpolate.js';
 import { finiteDifferenceJacobian } from '../measure/lsq.js';
 import type { Scenario } from '../scenario/types.js';
-import type { Outcome, Shot, ShotResults } from '../solve/types.js';
-import type { RunShot } from './batch.js';
+import type { Outcome, Shot } from '../solve/types.js';
+import { HEADLINE_KEYS, headlineValues, type Headline, type HeadlineKey, type RunShot } from './headline.js';
 import { movedPaths, reachOf, scenarioAt, uncertaintyModel, type InputSource, type UncertaintyModel } from './uncertainInputs.js';
 
-export const HEADLINE_KEYS = ['muzzleVelocity', 'exitTime', 'peakCurrent', 'efficiency', 'peakAcceleration', 'actionIntegral'] as const;
-export type HeadlineKey = (typeof HEADLINE_KEYS)[number];
-export type Headline = Record<HeadlineKey, number | null>;
+export { HEADLINE_KEYS, headlineValues, type Headline, type HeadlineKey } from './headline.js';
 
 /** step of the differences, in σ of the input */
 const STEP_IN_SIGMA = 0.1;
@@ -31,10 +29,6 @@ const STEP_IN_SIGMA = 0.1;
 const MIN_RELATIVE_STEP = 1e-6;
 /** a response whose curvature over the spread exceeds this fraction of its slope is named */
 const CURVATURE_LIMIT = 0.25;
-
-export function headlineValues(results: ShotResults): number[] {
-  return HEADLINE_KEYS.map((key) => (key === 'exitTime' ? results.exitTime ?? NaN : results[key]));
-}
 
 function asHeadline(values: readonly (number | null)[]): Headline {
   return Object.fromEntries(HEADLINE_KEYS.map((key, i) => [key, values[i] === null || !Number.isFinite(values[i]!) ? null : values[i]!])) as Headline;

@@ -27,7 +27,7 @@ import { normalQuantile } from '../core/normal.js';
 import { NORMAL_REACH } from '../scenario/uncertainty.js';
 import type { Scenario } from '../scenario/types.js';
 import type { ShotResults } from '../solve/types.js';
-import type { RunShot } from './batch.js';
+import type { RunShot } from './headline.js';
 import { propagateModel } from './propagate.js';
 import { compareTrials, compassSearch, type LimitName, type LimitViolation, type SizingLimits, designOf, ENERGY_TIE, searchTriggers, tieBreakSearch, trialAt, type Headroom, type Requirement, type SearchContext, type Trial } from './sizeSearch.js';
 import { uncertaintyModel } from './uncertainInputs.js';

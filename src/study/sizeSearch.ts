@@ -15,7 +15,7 @@
  */
 import type { Scenario } from '../scenario/types.js';
 import type { ShotResults } from '../solve/types.js';
-import type { RunShot } from './batch.js';
+import type { RunShot } from './headline.js';
 import { counterUniform } from './prng.js';
 
 export interface SizingLimits {
