@@ -346,9 +346,6 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const found = located as Located;
     locatedCount++;
     justFired = new Set(found.specs.map(eventKey));
-    // a module switching in starts fast dynamics: the long step of a slow coast before it would be far too long
-    // for odex's first step (an explicit method can then overflow instead of rejecting the step)
-    if (found.specs.some((spec) => spec.kind === 'trigger' || spec.kind === 'turn-on')) lastStep = Math.min(lastStep, FIRST_STEP);
     t = found.time;
     y = found.state;
     q = found.quadratures;

@@ -1,8 +1,8 @@
 /**
- * A group triggered long after the first (its pulse starts fast dynamics after a slow crowbar coast): the
- * integration restarts with a short first step, finishes, and the energy ledger closes to 1e-6 of E0 (model
- * contract §4). Before the fix the long step of the coast was reused, the explicit integrator overflowed and the
- * shot ran into solver.maxSteps with a NaN state.
+ * A group triggered long after the first (its pulse starts fast dynamics after a slow crowbar coast, where the
+ * integrator's steps had grown long): the shot finishes and the energy ledger closes to 1e-6 of E0 (model
+ * contract §4). The sizing search met this case, where the long step of the coast overflowed the explicit
+ * integrator into a NaN state; the integrator now restarts such a step with a shorter one.
  */
 import { describe, expect, it } from 'vitest';
 import { runShot } from '../../src/solve/shot.js';
