@@ -4,7 +4,7 @@
  * Builds HTML from values; the numbers come from src/study.
  */
 import { escapeHtml } from './escape.js';
-import { formatPercent, formatQuantity, formatScientific } from './format.js';
+import { formatPercent, formatQuantity, formatWithUncertainty } from '../units/format.js';
 import type { WaveformBands } from './plots.js';
 
 export interface UncertaintyRow {
@@ -30,19 +30,35 @@ export interface RecordUncertainty {
   bands: WaveformBands | null;
 }
 
-const LABELS: Record<string, [label: string, show: (value: number | null) => string]> = {
-  muzzleVelocity: ['Muzzle velocity', (v) => formatQuantity(v, 'm/s', { prefix: false })],
-  exitTime: ['Exit time', (v) => formatQuantity(v, 's')],
-  peakCurrent: ['Peak current', (v) => formatQuantity(v, 'A')],
-  efficiency: ['Efficiency', (v) => formatPercent(v)],
-  peakAcceleration: ['Peak acceleration', (v) => formatScientific(v, 'm/s\u00B2')],
-  actionIntegral: ['Action integral \u222BI\u00B2dt', (v) => formatScientific(v, 'A\u00B2\u00B7s')],
+/** Each headline result: how people call it and its SI unit ('%' for the efficiency, a fraction in SI). */
+export const HEADLINE_LABELS: Record<string, [label: string, unit: string]> = {
+  muzzleVelocity: ['Muzzle velocity', 'm/s'],
+  exitTime: ['Exit time', 's'],
+  peakCurrent: ['Peak current', 'A'],
+  efficiency: ['Efficiency', '%'],
+  peakAcceleration: ['Peak acceleration', 'm/s\u00B2'],
+  actionIntegral: ['Action integral \u222BI\u00B2dt', 'A\u00B2\u00B7s'],
 };
+
+/** A headline value for people (the efficiency as a percentage). */
+export function showHeadline(key: string, value: number | null): string {
+  const unit = HEADLINE_LABELS[key]?.[1] ?? '';
+  return unit === '%' ? formatPercent(value) : formatQuantity(value, unit);
+}
+
+/** A headline value with its standard uncertainty, both in the value's unit and prefix (GUM §7.2.6). */
+export function showWithUncertainty(key: string, value: number | null, sigma: number | null): string {
+  if (value === null) return showHeadline(key, value);
+  const unit = HEADLINE_LABELS[key]?.[1] ?? '';
+  const scale = unit === '%' ? 100 : 1;
+  return formatWithUncertainty(value * scale, sigma ?? NaN, unit);
+}
 
 export function uncertaintySection(uncertainty: RecordUncertainty): string {
   const rows = uncertainty.rows
     .map((row) => {
-      const [label, show] = LABELS[row.key] ?? [row.key, (v: number | null) => String(v)];
+      const label = HEADLINE_LABELS[row.key]?.[0] ?? row.key;
+      const show = (value: number | null): string => showHeadline(row.key, value);
       const interval = row.interval ? `${show(row.interval[0])} \u2026 ${show(row.interval[1])}` : '\u2014';
       return `<tr data-uncertainty="${escapeHtml(row.key)}"${row.sigma === null ? '' : ` data-si="${row.sigma}"`}><td>${escapeHtml(label)}</td><td class="num">${show(row.nominal)}</td><td class="num">${row.sigma === null ? 'not defined' : `\u00B1\u00A0${show(row.sigma)}`}</td><td class="num">${interval}</td></tr>`;
     })

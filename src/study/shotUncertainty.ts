@@ -4,13 +4,13 @@
  * the `uncertainty` key of --json (SI), lines for the terminal, and the record's section and bands.
  */
 import type { AssessedShot } from '../pipeline/shoot.js';
-import { formatPercent, formatQuantity, formatScientific } from '../report/format.js';
+import { forTerminal, formatPercent, formatQuantity } from '../units/format.js';
 import { siUnitOfPath } from '../report/inputs.js';
-import type { RecordUncertainty } from '../report/uncertainty.js';
+import { showHeadline, showWithUncertainty, HEADLINE_LABELS, type RecordUncertainty } from '../report/uncertainty.js';
 import { normalQuantile } from '../core/normal.js';
 import { validateScenario } from '../scenario/validate.js';
 import type { Tolerance } from '../scenario/types.js';
-import type { RunShot } from './batch.js';
+import type { RunShot } from './headline.js';
 import { monteCarlo, type MonteCarloSummary } from './montecarlo.js';
 import { HEADLINE_KEYS, propagateModel, type HeadlineKey, type LinearPropagation } from './propagate.js';
 import { uncertaintyModel } from './uncertainInputs.js';
@@ -88,20 +88,12 @@ export function uncertaintyJson(u: ShotUncertainty): Record<string, unknown> {
   return json;
 }
 
-const SHOW: Record<HeadlineKey, [string, (v: number | null) => string]> = {
-  muzzleVelocity: ['muzzle velocity', (v) => formatQuantity(v, 'm/s', { prefix: false })],
-  exitTime: ['exit time', (v) => formatQuantity(v, 's')],
-  peakCurrent: ['peak current', (v) => formatQuantity(v, 'A')],
-  efficiency: ['efficiency', (v) => formatPercent(v)],
-  peakAcceleration: ['peak acceleration', (v) => formatScientific(v, 'm/s\u00B2')],
-  actionIntegral: ['action integral', (v) => formatScientific(v, 'A\u00B2\u00B7s')],
-};
 
 /** How a tolerance reads, e.g. "uniform ±5 %" or "normal σ 20 V" (SI). */
 export function describeTolerance(tolerance: Tolerance): string {
   const unit = siUnitOfPath(tolerance.targets[0]!.path);
   // masses read in grams, not in prefixed kilograms
-  const spread = tolerance.relative ? formatPercent(tolerance.spread) : unit === 'kg' ? formatQuantity(tolerance.spread * 1e3, 'g') : formatQuantity(tolerance.spread, unit);
+  const spread = tolerance.relative ? formatPercent(tolerance.spread) : formatQuantity(tolerance.spread, unit);
   return `${tolerance.distribution === 'uniform' ? `uniform ±${spread}` : `normal σ ${spread}`}${tolerance.common ? ', one draw for every group' : ''}`;
 }
 
@@ -120,36 +112,38 @@ function inputLines(assessed: AssessedShot, u: ShotUncertainty): string[] {
 function monteCarloNotes(mc: MonteCarloSummary): string[] {
   const shares = Object.entries(mc.outcomes).map(([kind, n]) => `${formatPercent(n! / mc.ran)} ${kind}`).join(', ');
   const v = mc.results.muzzleVelocity;
+  const speed = (value: number): string => showHeadline('muzzleVelocity', value);
   const notes = [`Monte Carlo, ${mc.ran} of ${mc.shots} shots run (seed ${mc.seed}, ${mc.seconds.toFixed(1)} s): ${shares}` +
-    (v ? `; muzzle velocity mean ${SHOW.muzzleVelocity[1](v.mean)}, σ ${SHOW.muzzleVelocity[1](v.standardDeviation)}, 2.5–97.5 percentiles ${SHOW.muzzleVelocity[1](v.percentiles['2.5']!)} … ${SHOW.muzzleVelocity[1](v.percentiles['97.5']!)}` : '')];
-  if (mc.target) notes.push(`probability of leaving at ${SHOW.muzzleVelocity[1](mc.target.velocity)} or more: ${formatPercent(mc.target.probability)} (± ${formatPercent(mc.target.standardError, 2)}, binomial standard error)`);
+    (v ? `; muzzle velocity mean ${speed(v.mean)}, σ ${speed(v.standardDeviation)}, 2.5–97.5 percentiles ${speed(v.percentiles['2.5']!)} … ${speed(v.percentiles['97.5']!)}` : '')];
+  if (mc.target) notes.push(`probability of leaving at ${speed(mc.target.velocity)} or more: ${formatPercent(mc.target.probability)} (± ${formatPercent(mc.target.standardError, { digits: 2 })}, binomial standard error)`);
   for (const [key, limit] of Object.entries(mc.limits)) notes.push(`share of shots above the ${key} limit: ${formatPercent(limit.probabilityExceeded)}`);
   return [...notes, ...mc.warnings];
 }
 
 /** Lines for the terminal. */
 export function uncertaintyLines(assessed: AssessedShot, u: ShotUncertainty): string[] {
-  const coverage = formatPercent(u.interval.coverage, 3);
+  const coverage = formatPercent(u.interval.coverage, { digits: 3 });
   const lines = [`uncertainty: linear propagation of ${u.linear.inputs.length} input(s), ${u.linear.shots} shots; ±1σ and the ${coverage} interval (±${u.interval.factor.toFixed(3)}σ, normal approximation):`];
   for (const input of inputLines(assessed, u)) lines.push(`  input ${input}`);
   for (const key of HEADLINE_KEYS) {
-    const [label, show] = SHOW[key];
+    const label = HEADLINE_LABELS[key]![0].toLowerCase();
     const sigma = u.linear.standardUncertainty[key];
     const range = intervalOf(u, key);
-    lines.push(`  ${label.padEnd(18)} ${show(u.linear.nominal[key])} ± ${sigma === null ? 'not defined' : show(sigma)}${range ? `   (${show(range[0])} … ${show(range[1])})` : ''}`);
+    const value = sigma === null ? `${showHeadline(key, u.linear.nominal[key])} (uncertainty not defined)` : showWithUncertainty(key, u.linear.nominal[key], sigma);
+    lines.push(`  ${label.padEnd(24)} ${value}${range ? `   ${coverage}: ${showHeadline(key, range[0])} … ${showHeadline(key, range[1])}` : ''}`);
   }
   for (const warning of u.linear.warnings) lines.push(`  warning: ${warning}`);
   if (u.monteCarlo) for (const note of monteCarloNotes(u.monteCarlo)) lines.push(`  ${note}`);
-  return lines;
+  return lines.map(forTerminal);
 }
 
 /** The record's uncertainty section and bands. */
 export function recordUncertainty(assessed: AssessedShot, u: ShotUncertainty): RecordUncertainty {
   const waveforms = u.linear.waveforms;
-  const bandLabel = u.band.factor === 1 ? '±1σ (linear propagation)' : `${formatPercent(u.band.coverage, 3)} interval, ±${u.band.factor.toFixed(2)}σ (linear propagation, normal approximation)`;
+  const bandLabel = u.band.factor === 1 ? '±1σ (linear propagation)' : `${formatPercent(u.band.coverage, { digits: 3 })} interval, ±${u.band.factor.toFixed(2)}σ (linear propagation, normal approximation)`;
   return {
     method: `Linear propagation of ${u.linear.inputs.length} uncertain input(s) through a finite-difference Jacobian (${u.linear.shots} shots); the intervals assume a normal distribution of each result`,
-    intervalLabel: `${formatPercent(u.interval.coverage, 3)} interval`,
+    intervalLabel: `${formatPercent(u.interval.coverage, { digits: 3 })} interval`,
     rows: HEADLINE_KEYS.map((key) => ({ key, nominal: u.linear.nominal[key], sigma: u.linear.standardUncertainty[key], interval: intervalOf(u, key) })),
     inputs: inputLines(assessed, u),
     notes: [...u.linear.warnings, ...(u.monteCarlo ? monteCarloNotes(u.monteCarlo) : [])],
