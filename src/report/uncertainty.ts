@@ -50,8 +50,9 @@ export function showHeadline(key: string, value: number | null): string {
 export function showWithUncertainty(key: string, value: number | null, sigma: number | null): string {
   if (value === null) return showHeadline(key, value);
   const unit = HEADLINE_LABELS[key]?.[1] ?? '';
-  const scale = unit === '%' ? 100 : 1;
-  return formatWithUncertainty(value * scale, sigma ?? NaN, unit);
+  // a percentage: both figures in per cent, then the sign
+  if (unit === '%') return `${formatWithUncertainty(value * 100, (sigma ?? NaN) * 100, '1')}\u00A0%`;
+  return formatWithUncertainty(value, sigma ?? NaN, unit);
 }
 
 export function uncertaintySection(uncertainty: RecordUncertainty): string {

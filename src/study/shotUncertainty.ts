@@ -126,7 +126,8 @@ export function uncertaintyLines(assessed: AssessedShot, u: ShotUncertainty): st
   const lines = [`uncertainty: linear propagation of ${u.linear.inputs.length} input(s), ${u.linear.shots} shots; ±1σ and the ${coverage} interval (±${u.interval.factor.toFixed(3)}σ, normal approximation):`];
   for (const input of inputLines(assessed, u)) lines.push(`  input ${input}`);
   for (const key of HEADLINE_KEYS) {
-    const label = HEADLINE_LABELS[key]![0].toLowerCase();
+    const name = HEADLINE_LABELS[key]![0];
+    const label = name[0]!.toLowerCase() + name.slice(1);
     const sigma = u.linear.standardUncertainty[key];
     const range = intervalOf(u, key);
     const value = sigma === null ? `${showHeadline(key, u.linear.nominal[key])} (uncertainty not defined)` : showWithUncertainty(key, u.linear.nominal[key], sigma);
