@@ -25,8 +25,8 @@ const kJ = (joules: number): string => `${(joules / 1e3).toFixed(2)} kJ`;
 function candidateState(candidate: SizingCandidate, result: SizingResult): string {
   if (candidate.violations.length === 0) return candidate === result.best ? 'feasible, least stored energy' : 'feasible';
   if (!candidate.reached) {
-    const velocity = candidate.results ? `${candidate.results.muzzleVelocity.toFixed(1)} m/s` : 'no exit';
-    return `cannot reach the target within the charge-voltage limit (${velocity} at ${kV(largest(candidate.chargeVoltages))})`;
+    const velocity = candidate.results ? `${candidate.results.muzzleVelocity.toFixed(2)} m/s` : 'less than the target';
+    return `reaches only ${velocity} at the chargeVoltage limit`;
   }
   return candidate.violations.map((v) => (v.limit === 'exit' ? 'does not leave the muzzle' : `exceeds ${v.limit}`)).join('; ');
 }
