@@ -1,7 +1,7 @@
 /**
  * A sweep with --uncertainty: every row carries the standard uncertainties of the headline results at its own
  * point, equal to a linear propagation of that point alone (relative tolerances scale with the swept value), and
- * the CSV gets the uncertainty.<result> columns.
+ * the CSV gets the uncertainty.<result> columns after the results.
  */
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -36,6 +36,11 @@ describe('sweep --uncertainty', () => {
     }
     expect(rows[1]!.uncertainty.muzzleVelocity).not.toBe(rows[0]!.uncertainty.muzzleVelocity);
     const header = readFileSync(join(out, 'points.csv'), 'utf8').split('\n')[0]!.split(',');
-    expect(header.slice(-UNCERTAINTY_COLUMNS.length - 1, -1)).toEqual(UNCERTAINTY_COLUMNS);
+    // right after the shot's results, before the verdicts
+    const at = header.indexOf(UNCERTAINTY_COLUMNS[0]!);
+    expect(header.slice(at, at + UNCERTAINTY_COLUMNS.length)).toEqual(UNCERTAINTY_COLUMNS);
+    expect(header[at + UNCERTAINTY_COLUMNS.length]).toBe('verdict');
+    const csvRow = readFileSync(join(out, 'points.csv'), 'utf8').split('\n')[1]!.split(',');
+    expect(Number(csvRow[at])).toBe(rows[0]!.uncertainty.muzzleVelocity);
   }, 120_000);
 });
