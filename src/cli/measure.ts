@@ -12,6 +12,7 @@ import { fitScenario, type FitResult } from '../measure/fit.js';
 import { goodnessOfFit, requireComparedSamples, type GoodnessOfFit } from '../measure/goodness.js';
 import { sampledLikeMeasurement } from '../measure/sampling.js';
 import { setScenarioPath } from '../scenario/paths.js';
+import { fileSha256 } from '../output/hash.js';
 import { reportDate } from '../output/provenance.js';
 import { writeNewFile } from '../output/write.js';
 import { DEFAULT_REPORT_DIR, recordShot } from '../pipeline/record.js';
@@ -210,7 +211,15 @@ export function fitCommand(file: string, csv: string, flags: FitFlags): FitResul
 
   const date = reportDate();
   const fitted = Object.fromEntries(Object.entries(fit.parameters).map(([path, p]) => [path, { value: p.value, uncertainty: p.uncertainty }]));
-  const raw = calibratedScenarioRaw(loaded.raw, { scenarioFile: basename(file), measurementFile: basename(csv), date, fitted });
+  const raw = calibratedScenarioRaw(loaded.raw, {
+    scenarioFile: basename(file),
+    measurementFile: basename(csv),
+    date,
+    fitted,
+    measurementSha256: fileSha256(csv),
+    correlations: fit.correlations,
+    chiSquaredReduced: fit.residual.chiSquaredReduced,
+  });
   const text = `${JSON.stringify(raw, null, 2)}\n`;
   // the calibrated file must load like any other before it is written
   const calibrated = loadScenarioText(text, 'calibrated scenario');

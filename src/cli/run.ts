@@ -11,12 +11,22 @@ import { rerunRecord } from '../pipeline/rerun.js';
 import { resultsJson, shoot, type AssessedShot } from '../pipeline/shoot.js';
 import { loadScenarioFile, type LoadedScenario } from '../scenario/load.js';
 import { EXIT, InputError } from '../core/errors.js';
+import { runShot } from '../solve/shot.js';
+import { parseWholeNumber } from '../study/plan.js';
+import { targetVelocity } from '../study/size.js';
+import { readTarget } from '../study/sizeInput.js';
+import { recordUncertainty, shotUncertainty, uncertaintyJson, uncertaintyLines, type ShotUncertainty } from '../study/shotUncertainty.js';
 
 interface RunFlags {
   json?: boolean;
   csv?: string;
   report: string | boolean;
   fromReport?: string;
+  uncertainty: boolean;
+  monteCarlo?: string;
+  seed?: string;
+  jobs?: string;
+  band?: string;
 }
 
 export function registerRun(program: Command): void {
@@ -29,15 +39,53 @@ export function registerRun(program: Command): void {
     .option('--report <path>', `where to write the HTML record: a folder, or a file ending in .html (default: ${DEFAULT_REPORT_DIR}/)`)
     .option('--no-report', 'do not write the HTML record')
     .option('--from-report <file>', 're-run the scenario archived in a report and say whether the results still match (files a record only with --report)')
-    .action((file: string | undefined, flags: RunFlags) => {
+    .option('--no-uncertainty', "skip the propagation of the scenario's tolerances and calibration")
+    .option('--monte-carlo <shots>', 'also run this many shots with the uncertain inputs drawn at random (on worker threads): percentiles, outcome shares, probability of the target')
+    .option('--seed <n>', 'seed of the Monte Carlo draws (default 1)')
+    .option('--jobs <n>', 'worker threads of the Monte Carlo (default: all cores)')
+    .option('--band <coverage>', "coverage of the intervals and of the record's bands, e.g. 0.95 (default: ±1σ bands, 95 % intervals)")
+    .action(async (file: string | undefined, flags: RunFlags) => {
       if (flags.fromReport !== undefined) {
         fromReport(file, flags.fromReport, flags);
         return;
       }
       if (!file) throw new InputError('run', 'expected a scenario file (or --from-report FILE)');
       checkOutputs(flags);
-      simulate(loadScenarioFile(file), flags);
+      const loaded = loadScenarioFile(file);
+      const assessed = shoot(loaded, { waveforms: wantsWaveforms(flags) });
+      present(loaded, flags, assessed, flags.uncertainty ? await uncertaintyOf(assessed, flags) : null);
     });
+}
+
+// Waveforms feed the record, the CSV and the summary's ledger check over every sample; JSON alone needs none.
+const wantsWaveforms = (flags: RunFlags): boolean => flags.report !== false || Boolean(flags.csv) || !flags.json;
+
+function bandOption(text: string): number {
+  const value = Number(text);
+  if (!/^\s*0?\.\d+\s*$/.test(text) || !(value > 0 && value < 1)) throw new InputError('--band', `expected a coverage probability between 0 and 1, e.g. 0.95, got "${text}"`);
+  return value;
+}
+
+/** The propagation of the scenario's tolerances and calibration (and a Monte Carlo when asked), or null. */
+async function uncertaintyOf(assessed: AssessedShot, flags: RunFlags): Promise<ShotUncertainty | null> {
+  const band = flags.band === undefined ? undefined : bandOption(flags.band);
+  const monteCarlo = flags.monteCarlo === undefined ? undefined : {
+    shots: parseWholeNumber('--monte-carlo', flags.monteCarlo, 2),
+    seed: flags.seed === undefined ? 1 : parseWholeNumber('--seed', flags.seed, 0),
+    ...(flags.jobs === undefined ? {} : { jobs: parseWholeNumber('--jobs', flags.jobs, 1) }),
+  };
+  const target = readTarget(assessed.loaded.raw, assessed.loaded.file);
+  const uncertainty = await shotUncertainty(assessed, {
+    runShot,
+    waveforms: flags.report !== false,
+    ...(band !== undefined ? { band } : {}),
+    ...(monteCarlo ? { monteCarlo } : {}),
+    ...(target ? { targetVelocity: targetVelocity(assessed.scenario, target) } : {}),
+  });
+  if (!uncertainty && (monteCarlo || band !== undefined)) {
+    throw new InputError(monteCarlo ? '--monte-carlo' : '--band', 'the scenario has no tolerances and no calibration: nothing is uncertain');
+  }
+  return uncertainty;
 }
 
 /** Every output name is checked before the shot, so a long shot never ends in "exists already". */
@@ -60,7 +108,8 @@ function fromReport(file: string | undefined, record: string, flags: RunFlags): 
   checkOutputs(options);
   let filed: string | null = null;
   const rerun = rerunRecord(record, (loaded) => {
-    const done = simulate(loaded, options, false);
+    // a re-run compares the nominal results: no propagation
+    const done = present(loaded, options, shoot(loaded, { waveforms: wantsWaveforms(options) }), null, false);
     filed = done.reportPath;
     return done.assessed;
   });
@@ -69,19 +118,20 @@ function fromReport(file: string | undefined, record: string, flags: RunFlags): 
   if (!rerun.matches) process.exitCode = EXIT.negative;
 }
 
-/** Shoot, write the CSV and the record, print; `announce` prints where the record went. */
-function simulate(loaded: LoadedScenario, flags: RunFlags, announce = true): { assessed: AssessedShot; reportPath: string | null } {
-  // Waveforms feed the record, the CSV and the summary's ledger check over every sample; JSON alone needs none.
-  const waveforms = flags.report !== false || Boolean(flags.csv) || !flags.json;
-  const assessed = shoot(loaded, { waveforms });
+/** Write the CSV and the record, print; `announce` prints where the record went. */
+function present(loaded: LoadedScenario, flags: RunFlags, assessed: AssessedShot, uncertainty: ShotUncertainty | null, announce = true): { assessed: AssessedShot; reportPath: string | null } {
   const { shot } = assessed;
   if (flags.csv && shot.waveforms) writeExactFile(flags.csv, waveformCsv(loaded.scenario, shot.waveforms), '--csv');
-  const reportPath = flags.report === false ? null : recordShot(assessed, typeof flags.report === 'string' ? flags.report : undefined);
+  const place = typeof flags.report === 'string' ? flags.report : undefined;
+  const reportPath = flags.report === false ? null : recordShot(assessed, place, undefined, uncertainty ? recordUncertainty(assessed, uncertainty) : undefined);
   if (flags.json) {
-    process.stdout.write(JSON.stringify(resultsJson(assessed), null, 2) + '\n');
+    const json = resultsJson(assessed);
+    if (uncertainty) json.uncertainty = uncertaintyJson(uncertainty);
+    process.stdout.write(JSON.stringify(json, (_, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n');
     if (reportPath && announce) process.stderr.write(`report: ${reportPath}\n`);
   } else {
     process.stdout.write(shotSummary(loaded.scenario, shot, assessed.assessment));
+    if (uncertainty) process.stdout.write(`${uncertaintyLines(assessed, uncertainty).join('\n')}\n`);
     if (reportPath && announce) process.stdout.write(`report: ${reportPath}\n`);
   }
   return { assessed, reportPath };

@@ -15,42 +15,67 @@ import { sizeBank, type SizingCandidate, type SizingResult } from '../study/size
 import { readSizingInput } from '../study/sizeInput.js';
 import { sizedScenarioJson } from '../study/sizedScenario.js';
 import { say } from './common.js';
+import { parseWholeNumber } from '../study/plan.js';
+import { monteCarloLines, monteCarloOfSizing } from '../study/sizeCheck.js';
 
-/**
- * Why a candidate is not feasible, in words: a limit it exceeds, or one it sits at (a value exactly at a limit is
- * within it) while still short of the target.
- */
-function candidateState(candidate: SizingCandidate): string {
-  if (candidate.violations.length === 0) return 'feasible';
-  return candidate.violations
-    .map((v) => {
-      if (v.limit === 'exit') return 'does not leave the muzzle';
-      if (v.value > v.allowed) return `exceeds ${v.limit}`;
-      const velocity = candidate.results ? `${candidate.results.muzzleVelocity.toFixed(2)} m/s` : 'less than the target';
-      return `reaches only ${velocity} at the ${v.limit} limit`;
-    })
-    .join('; ');
+const kV = (volts: number): string => `${(volts / 1e3).toFixed(3)} kV`;
+const kJ = (joules: number): string => `${(joules / 1e3).toFixed(2)} kJ`;
+
+/** Why a candidate is not feasible, in words (a value exactly at a limit is within it). */
+function candidateState(candidate: SizingCandidate, result: SizingResult): string {
+  if (candidate.violations.length === 0) return candidate === result.best ? 'feasible, least stored energy' : 'feasible';
+  if (!candidate.reached) {
+    const velocity = candidate.results ? `${candidate.results.muzzleVelocity.toFixed(2)} m/s` : 'less than the target';
+    return `reaches only ${velocity} at the chargeVoltage limit`;
+  }
+  return candidate.violations.map((v) => (v.limit === 'exit' ? 'does not leave the muzzle' : `exceeds ${v.limit}`)).join('; ');
+}
+
+function bindingText(result: SizingResult): string {
+  if (result.binding.length === 0) return 'none (the optimum lies inside every limit)';
+  return result.binding
+    .map((name) => (name === 'modulesPerGroup' && result.beyondModuleLimit ? `modulesPerGroup (${result.beyondModuleLimit.modulesPerGroup} per group would store ${kJ(result.beyondModuleLimit.storedEnergy)})` : name))
+    .join(', ');
 }
 
 function describeSizing(result: SizingResult): string[] {
   const lines = result.candidates.map((candidate) => {
-    const volts = largest(candidate.chargeVoltages);
-    const state = candidateState(candidate);
     const current = candidate.results ? `${(candidate.results.peakCurrent / 1e3).toFixed(1)} kA` : '?';
-    return `  ${candidate.modulesPerGroup} module(s)/group: ${(volts / 1e3).toFixed(3)} kV, ${(candidate.storedEnergy / 1e3).toFixed(2)} kJ stored, peak ${current} — ${state}`;
+    return `  ${candidate.modulesPerGroup} module(s)/group: ${kV(largest(candidate.chargeVoltages))}, ${kJ(candidate.storedEnergy)} stored, peak ${current} — ${candidateState(candidate, result)}`;
   });
+  const head: string[] = [];
   if (result.best) {
     const best = result.best;
-    lines.unshift(`sized: ${best.modulesPerGroup} module(s) per group at ${best.chargeVoltages.map((v) => `${(v / 1e3).toFixed(4)} kV`).join(', ')}, triggers ${best.triggers.map((t) => `${(t * 1e6).toFixed(1)} µs`).join(', ')}; ${(best.storedEnergy / 1e3).toFixed(3)} kJ stored for ${result.targetVelocity.toFixed(2)} m/s (nearest limit: ${result.binding.join(', ') || 'none set'})`);
+    head.push(`sized: ${best.modulesPerGroup} module(s) per group at ${best.chargeVoltages.map((v) => `${(v / 1e3).toFixed(4)} kV`).join(', ')}, triggers ${best.triggers.map((t) => `${(t * 1e6).toFixed(1)} µs`).join(', ')}; ${(best.storedEnergy / 1e3).toFixed(3)} kJ stored for ${result.targetVelocity.toFixed(2)} m/s`);
+    head.push(`binding limit: ${bindingText(result)}`);
+    if (best.confidence) {
+      const c = best.confidence;
+      head.push(`met with ${(100 * c.level).toFixed(1)} % confidence (linear propagation): nominal ${best.results!.muzzleVelocity.toFixed(1)} m/s, σ ${c.sigma.muzzleVelocity.toFixed(1)} m/s, ${(100 * (1 - c.level)).toFixed(1)}th percentile ${c.velocityAtConfidence.toFixed(1)} m/s`);
+    }
   } else {
-    lines.unshift(`no design reaches ${result.targetVelocity.toFixed(2)} m/s within the limits; binding: ${result.binding.join(', ')}`);
+    head.push(`no design reaches ${result.targetVelocity.toFixed(2)} m/s within the limits; binding: ${result.binding.join(', ')}`);
   }
+  for (const note of result.notes) head.push(`note: ${note}`);
   lines.push(`${result.shots} shots. Simulated sizing only: a charged bank can kill — follow your institution's safety rules, local codes and licensed practice.`);
-  return lines;
+  return [...head, ...lines];
 }
 
-export async function sizeCommand(file: string, flags: { out?: string; json?: boolean; report?: string | boolean }): Promise<SizingResult> {
+interface SizeFlags {
+  out?: string;
+  json?: boolean;
+  report?: string | boolean;
+  monteCarlo?: string;
+  seed?: string;
+  jobs?: string;
+}
+
+export async function sizeCommand(file: string, flags: SizeFlags): Promise<SizingResult> {
   const input = readSizingInput(file);
+  const check = flags.monteCarlo === undefined ? null : {
+    shots: parseWholeNumber('--monte-carlo', flags.monteCarlo, 2),
+    seed: flags.seed === undefined ? 1 : parseWholeNumber('--seed', flags.seed, 0),
+    ...(flags.jobs === undefined ? {} : { jobs: parseWholeNumber('--jobs', flags.jobs, 1) }),
+  };
   const folder = dirname(file);
   const defaultBase = `${basename(file, extname(file))}.sized-${input.sha256.slice(0, 8)}`;
   // Output names first: the search runs hundreds of shots, and must not end in "exists already".
@@ -60,6 +85,9 @@ export async function sizeCommand(file: string, flags: { out?: string; json?: bo
   say('sizing…');
   const result = sizeBank(input.scenario, input.target, input.limits, runShot);
   for (const line of describeSizing(result)) say(line);
+  const monteCarlo = check ? await monteCarloOfSizing(result, input.limits, check) : null;
+  if (check && !monteCarlo && result.feasible) say('note: --monte-carlo: the scenario has no tolerances and no calibration, so there is nothing to draw');
+  if (monteCarlo) for (const line of monteCarloLines(result, monteCarlo)) say(line);
   let written: string | null = null;
   if (result.scenario) {
     const json = sizedScenarioJson(input.raw, { file, name: input.scenario.name, sha256: input.sha256 }, result);
@@ -75,7 +103,10 @@ export async function sizeCommand(file: string, flags: { out?: string; json?: bo
     say(`wrote ${written}`);
     if (flags.report !== false) say(`report: ${recordShot(shoot({ ...sized, file: written }), typeof flags.report === 'string' ? flags.report : undefined)}`);
   }
-  if (flags.json) process.stdout.write(`${JSON.stringify({ ...result, written }, null, 2)}\n`);
+  if (flags.json) {
+    const checked = monteCarlo ? { monteCarlo: { ...monteCarlo, samples: undefined, sampleOutcomes: undefined } } : {};
+    process.stdout.write(`${JSON.stringify({ ...result, ...checked, written }, null, 2)}\n`);
+  }
   // No feasible design is an answer, not a failure: its own exit code, distinct from bad input and from a defect.
   if (!result.feasible) process.exitCode = EXIT.negative;
   return result;
@@ -89,7 +120,10 @@ export function registerSizeCommand(program: Command): void {
     .option('--json', 'print the sizing result as JSON on stdout')
     .option('--report <path>', 'where to write the shot record of the sized design (default reports/)')
     .option('--no-report', 'do not write the shot record')
-    .action(async (scenario: string, flags: { out?: string; json?: boolean; report?: string | boolean }) => {
+    .option('--monte-carlo <shots>', 'check the sized design with this many shots of its tolerances and calibration drawn at random (worker threads)')
+    .option('--seed <n>', 'seed of the Monte Carlo draws (default 1)')
+    .option('--jobs <n>', 'worker threads of the Monte Carlo (default: all cores)')
+    .action(async (scenario: string, flags: SizeFlags) => {
       await sizeCommand(scenario, flags);
     });
 }

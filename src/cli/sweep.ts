@@ -27,12 +27,17 @@ interface SweepFlags {
   resume?: boolean;
   json?: boolean;
   report: boolean;
+  uncertainty?: boolean;
 }
 
 export async function sweepCommand(file: string, flags: SweepFlags): Promise<SweepSummary> {
   if (!DESIGN_KINDS.includes(flags.design as DesignKind)) throw new InputError('--design', `expected one of ${DESIGN_KINDS.join(', ')}, got "${flags.design}"`);
   const loaded = loadScenarioFile(file);
+  if (flags.uncertainty && !loaded.scenario.tolerances && !loaded.scenario.calibration) {
+    throw new InputError('--uncertainty', 'the scenario has no tolerances and no calibration: nothing is uncertain');
+  }
   const plan = makeSweepPlan({
+    uncertainty: flags.uncertainty ?? false,
     scenario: loaded.scenario,
     source: { file, sha256: loaded.sha256 },
     vary: flags.vary,
@@ -105,6 +110,7 @@ export function registerSweepCommands(program: Command): void {
     .option('--resume', 'continue an interrupted study in --out (or the default directory); a folder that holds the same study is continued anyway')
     .option('--no-report', 'do not write study.html')
     .option('--json', 'print a summary as JSON on stdout')
+    .option('--uncertainty', "add each point's standard uncertainties (the scenario's tolerances and calibration, linear propagation: 1 + 2k shots a point)")
     .action(async (scenario: string, flags: SweepFlags) => {
       await sweepCommand(scenario, flags);
     });

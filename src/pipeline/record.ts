@@ -8,6 +8,7 @@ import { recordTag, reportDate } from '../output/provenance.js';
 import { checkNewFile, checkWritableFolder, reportBaseName, writeExactFile, writeNewFile } from '../output/write.js';
 import { buildShotReport } from '../report/html.js';
 import type { OverlayInput } from '../report/overlay.js';
+import type { RecordUncertainty } from '../report/uncertainty.js';
 import { InputError, withFileProblems } from '../core/errors.js';
 import type { AssessedShot } from './shoot.js';
 
@@ -52,8 +53,8 @@ export function recordBaseName(assessed: AssessedShot, suffix = ''): string {
   return `${reportBaseName(reportDate(), assessed.loaded.scenario.name, recordTag(assessed.loaded.sha256))}${suffix}`;
 }
 
-/** The HTML record of an assessed shot (with measured traces over it when `overlay` is given). */
-export function shotRecordHtml(assessed: AssessedShot, overlay?: OverlayInput): string {
+/** The HTML record of an assessed shot (with measured traces over it when `overlay` is given, its uncertainty when known). */
+export function shotRecordHtml(assessed: AssessedShot, overlay?: OverlayInput, uncertainty?: RecordUncertainty): string {
   return buildShotReport({
     scenarioRaw: assessed.loaded.raw,
     scenario: assessed.scenario,
@@ -62,10 +63,11 @@ export function shotRecordHtml(assessed: AssessedShot, overlay?: OverlayInput): 
     warnings: assessed.assessment.warnings.map((w) => w.message),
     checks: assessed.assessment.checks,
     ...(overlay ? { overlay } : {}),
+    ...(uncertainty ? { uncertainty } : {}),
   });
 }
 
 /** Build and file the record of a shot; returns its path. */
-export function recordShot(assessed: AssessedShot, target?: string, overlay?: OverlayInput): string {
-  return fileRecord(shotRecordHtml(assessed, overlay), { target, baseName: recordBaseName(assessed, overlay ? '_overlay' : '') });
+export function recordShot(assessed: AssessedShot, target?: string, overlay?: OverlayInput, uncertainty?: RecordUncertainty): string {
+  return fileRecord(shotRecordHtml(assessed, overlay, uncertainty), { target, baseName: recordBaseName(assessed, overlay ? '_overlay' : '') });
 }

@@ -23,6 +23,7 @@ import { energyBudgetParts, shotFigures, type PlotFigure } from './plots.js';
 import { overlayElement, overlayFigures, overlaySection, type OverlayInput } from './overlay.js';
 import { bankSize, safetyBanner, safetyProcedures, type BankOnPage } from './safety.js';
 import { statusBanner } from './status.js';
+import { uncertaintySection, type RecordUncertainty } from './uncertainty.js';
 import { DATE_SCRIPT, dateHtml, pageStart } from './styles.js';
 import { checksSection, eventsSection, inputsSection, modulesSection, provenanceSection } from './tables.js';
 
@@ -42,6 +43,8 @@ export interface ShotReportInput {
   decimate?: DecimateOptions;
   /** measured traces to draw over the simulated ones, with goodness of fit (and a calibration) */
   overlay?: OverlayInput;
+  /** the results' uncertainty, and bands for the current and velocity plots */
+  uncertainty?: RecordUncertainty;
 }
 
 export { STANDARD_GRAVITY };
@@ -205,7 +208,7 @@ export function buildShotReport(input: ShotReportInput): string {
   const results = shot.results;
   const warnings = [...new Set(input.warnings)];
   const checks = input.checks ?? [];
-  const figures = shotFigures(scenario, results, shot.waveforms, input.decimate, shot.events);
+  const figures = shotFigures(scenario, results, shot.waveforms, input.decimate, shot.events, input.uncertainty?.bands ?? undefined);
   const bank = bankOnPage(scenario);
   const block: EmbeddedResultsBlock = {
     format: REPORT_FORMAT,
@@ -232,6 +235,7 @@ ${headerSection(scenario, results, provenance)}
 ${safetyBanner([bank])}
 ${statusBanner(checks, warnings)}
 ${figuresSection(results)}
+${input.uncertainty ? uncertaintySection(input.uncertainty) : ''}
 ${input.overlay ? overlaySection(input.overlay, overlayPlots) : ''}
 ${checksSection(checks)}
 ${plotsSection(figures, results, shot.waveforms !== null)}

@@ -106,6 +106,28 @@ interface SeriesSpec {
   /** palette index, so one group keeps its colour in every plot */
   colourIndex?: number;
   extra?: Record<string, unknown>;
+  /** half-width of an uncertainty band drawn around it */
+  band?: { halfWidth: ArrayLike<number>; label: string };
+}
+
+/**
+ * Uncertainty bands for the current and velocity plots: half-widths on the waveforms' own time grid (one per
+ * sample), and what they are, e.g. "±1σ (linear propagation)".
+ */
+export interface WaveformBands {
+  current: ArrayLike<number>;
+  velocity: ArrayLike<number>;
+  label: string;
+}
+
+/** A shaded band value ± half-width: a lower edge and an upper edge filled down to it. */
+function bandTraces(x: Array<number | null>, values: ArrayLike<number>, halfWidth: ArrayLike<number>, indices: readonly number[], scale: Scale, label: string, yaxis?: string): PlotTrace[] {
+  const edge = (sign: number): Array<number | null> => indices.map((i) => round6((values[i]! + sign * halfWidth[i]!) * scale.factor));
+  const common = { type: 'scatter', mode: 'lines', x, line: { width: 0, color: '#6b7fa8' }, hoverinfo: 'skip', ...(yaxis ? { xaxis: 'x', yaxis } : {}) };
+  return [
+    { ...common, name: plotlyText(`${label} (lower)`), y: edge(-1), showlegend: false },
+    { ...common, name: plotlyText(label), y: edge(1), fill: 'tonexty', fillcolor: 'rgba(107, 127, 168, 0.28)' },
+  ];
 }
 
 /** Lines sharing one decimated time base and one y scale. */
@@ -124,15 +146,18 @@ function lineFigure(
   const indices = decimateIndices(waveforms.t, series.map((s) => s.values), decimate);
   const yScale = scaleFor(maxAbs(series.map((s) => s.values)));
   const x = scaled(waveforms.t, indices, time);
-  const data = series.map((s, i) => ({
-    type: 'scatter',
-    mode: 'lines',
-    name: plotlyText(s.name),
-    x,
-    y: scaled(s.values, indices, yScale),
-    line: { width: 1.6, color: colour(s.colourIndex ?? i) },
-    ...s.extra,
-  }));
+  const data = series.flatMap((s, i) => [
+    ...(s.band ? bandTraces(x, s.values, s.band.halfWidth, indices, yScale, s.band.label) : []),
+    {
+      type: 'scatter',
+      mode: 'lines',
+      name: plotlyText(s.name),
+      x,
+      y: scaled(s.values, indices, yScale),
+      line: { width: 1.6, color: colour(s.colourIndex ?? i) },
+      ...s.extra,
+    },
+  ]);
   const layout = { ...baseLayout(`Time (${time.prefix}s)`, `${quantity} (${yScale.prefix}${unit})`), ...markLayout(marks, time) };
   return { id, title, caption, data, layout };
 }
@@ -141,7 +166,7 @@ function timeScale(waveforms: Waveforms): Scale {
   return scaleFor(waveforms.t[waveforms.t.length - 1] ?? 0);
 }
 
-function motionFigure(waveforms: Waveforms, decimate: DecimateOptions, marks: readonly EventMark[]): PlotFigure {
+function motionFigure(waveforms: Waveforms, decimate: DecimateOptions, marks: readonly EventMark[], bands?: WaveformBands): PlotFigure {
   const time = timeScale(waveforms);
   const rows: Array<[string, ArrayLike<number>, string]> = [
     ['Position', waveforms.position, 'm'],
@@ -160,11 +185,12 @@ function motionFigure(waveforms: Waveforms, decimate: DecimateOptions, marks: re
   layout['margin'] = { l: 72, r: 24, t: 12, b: 48 };
   layout['xaxis'] = axis(`Time (${time.prefix}s)`, { anchor: 'y3' });
   Object.assign(layout, markLayout(marks, time));
-  const data = rows.map(([name, values, unit], i) => {
+  const data = rows.flatMap(([name, values, unit], i) => {
     const yScale = scaleFor(maxAbs([values]));
     const axisKey = i === 0 ? 'yaxis' : `yaxis${i + 1}`;
     layout[axisKey] = axis(`${name} (${yScale.prefix}${unit})`, { domain: domains[i] });
-    return {
+    const band = bands && name === 'Velocity' ? bandTraces(x, values, bands.velocity, indices, yScale, bands.label, `y${i + 1}`) : [];
+    return [...band, {
       type: 'scatter',
       mode: 'lines',
       name,
@@ -173,12 +199,13 @@ function motionFigure(waveforms: Waveforms, decimate: DecimateOptions, marks: re
       xaxis: 'x',
       yaxis: i === 0 ? 'y' : `y${i + 1}`,
       line: { width: 1.6, color: colour(i) },
-    };
+    }];
   });
+  if (bands) layout['showlegend'] = true;
   return {
     id: 'plot-motion',
     title: 'Armature position, velocity and acceleration',
-    caption: 'Position measured from the breech; acceleration from the net force on the armature.',
+    caption: `Position measured from the breech; acceleration from the net force on the armature.${bands ? ` Shaded: ${bands.label} on the velocity.` : ''}`,
     data,
     layout,
   };
@@ -286,23 +313,29 @@ export function shotFigures(
   waveforms: Waveforms | null,
   decimate: DecimateOptions = {},
   events: readonly ShotEvent[] = [],
+  bands?: WaveformBands,
 ): PlotFigure[] {
   if (!waveforms || waveforms.t.length === 0) return [budgetFigure(results)];
   const labels = scenario.bank.map((group, i) => results.modules[i]?.label ?? group.label);
   const marks = eventMarks(events, labels);
   const groups = waveforms.groupCurrent.map((values, i) => ({ name: labels[i] ?? `group ${i + 1}`, values, colourIndex: i }));
   const currents: SeriesSpec[] = [
-    { name: 'total current I', values: waveforms.current, extra: { line: { width: 2.2, color: '#111' } } },
+    {
+      name: 'total current I',
+      values: waveforms.current,
+      extra: { line: { width: 2.2, color: '#111' } },
+      ...(bands ? { band: { halfWidth: bands.current, label: bands.label } } : {}),
+    },
     ...(groups.length > 1 ? groups : []),
   ];
   return [
-    lineFigure('plot-current', 'Current', 'Total rail current and, for a bank of several groups, the current of each group (all its modules).',
+    lineFigure('plot-current', 'Current', `Total rail current and, for a bank of several groups, the current of each group (all its modules).${bands ? ` Shaded: ${bands.label} on the total current.` : ''}`,
       waveforms, currents, 'A', 'Current', decimate, marks),
     lineFigure('plot-capacitor', 'Capacitor voltages', 'Voltage across one capacitor of each group; below zero is voltage reversal.',
       waveforms, waveforms.groupVoltage.map((values, i) => ({ name: labels[i] ?? `group ${i + 1}`, values, colourIndex: i })), 'V', 'Voltage', decimate, marks),
     lineFigure('plot-rail-voltage', 'Breech and muzzle voltage', 'Breech: across the rails at the breech. Muzzle: across the armature (resistive and arc drop).',
       waveforms, [{ name: 'breech', values: waveforms.breechVoltage }, { name: 'muzzle (armature)', values: waveforms.muzzleVoltage }], 'V', 'Voltage', decimate, marks),
-    motionFigure(waveforms, decimate, marks),
+    motionFigure(waveforms, decimate, marks, bands),
     ledgerFigure(waveforms, results.energy.initial, decimate, marks),
     budgetFigure(results),
   ];

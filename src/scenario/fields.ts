@@ -61,6 +61,8 @@ export interface RawField {
   kind: 'raw';
   required?: boolean;
   description: string;
+  /** its JSON Schema, when its reader checks a fixed shape */
+  schema?: Record<string, unknown>;
 }
 export type Field = QuantityField | IntegerField | TextField | SectionField | ListField | RawField;
 
@@ -219,7 +221,45 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
   },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
   limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults, and the limits railpulse size must respect (peakCurrent, peakAcceleration, actionIntegral, reversal, chargeVoltage, modulesPerGroup)' },
-  target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }' },
+  target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }, with an optional "confidence" (0–1) and "tieBreak" ("peakCurrent" or "none")' },
+  tolerances: {
+    kind: 'raw',
+    description: 'spreads of scenario values (src/scenario/uncertainty.ts): each entry a path (bank[*] for every group) with "uniform" (half-width ±a) or "normal" (σ), as a quantity or a percentage of the value',
+    schema: {
+      type: 'array',
+      items: {
+        type: 'object',
+        additionalProperties: false,
+        required: ['path'],
+        properties: {
+          path: { type: 'string', description: 'scenario path, e.g. bank[0].capacitance or bank[*].voltage' },
+          uniform: { description: 'half-width a of a uniform spread ±a (σ = a/√3): a quantity, or a percentage of the value such as "5 %"', anyOf: [{ type: 'number' }, { type: 'string' }] },
+          normal: { description: 'standard deviation σ of a normal spread: a quantity, or a percentage of the value', anyOf: [{ type: 'number' }, { type: 'string' }] },
+          common: { type: 'boolean', description: 'with bank[*]: one draw moves every group together (default false: each group its own draw)' },
+        },
+      },
+    },
+  },
+  calibration: {
+    kind: 'raw',
+    description: 'fitted values with their covariance and the measured record they came from (written by railpulse fit)',
+    schema: {
+      type: 'object',
+      additionalProperties: false,
+      required: ['parameters', 'values', 'covariance', 'record', 'recordSha256', 'date'],
+      properties: {
+        parameters: { type: 'array', items: { type: 'string' }, description: 'the fitted scenario paths' },
+        values: { type: 'array', items: { type: 'number' }, description: 'fitted values (SI), equal to the scenario values at those paths' },
+        covariance: { type: 'array', items: { type: 'array', items: { type: 'number' } }, description: 'covariance matrix of the fitted values (SI), symmetric positive semi-definite' },
+        record: { type: 'string', description: 'the measured record that was fitted' },
+        recordSha256: { type: 'string', pattern: '^[0-9a-fA-F]{64}$', description: "SHA-256 of the record's bytes" },
+        date: { type: 'string', description: 'ISO date of the fit' },
+        scenario: { type: 'string', description: 'the scenario file that was calibrated' },
+        chiSquaredReduced: { type: 'number', minimum: 0, description: 'χ²/ν of the fit' },
+        onBound: { type: 'array', items: { type: 'string' }, description: 'parameters fitted onto a bound (no uncertainty)' },
+      },
+    },
+  },
   solver: {
     kind: 'section',
     optional: true,

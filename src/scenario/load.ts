@@ -13,6 +13,7 @@ import { MAX_JSON_DEPTH, findJsonError } from './jsonError.js';
 import { deriveFromGeometry } from './derive.js';
 import { nestingDepth, readScenarioSource, withoutByteOrderMark } from './source.js';
 import { rangeProblem } from './ranges.js';
+import { readUncertaintySections } from './uncertainty.js';
 
 export { validateScenario } from './validate.js';
 export { dimensionOfPath } from './fields.js';
@@ -79,6 +80,7 @@ export function scenarioFromRaw(raw: Record<string, unknown>, file?: string): Sc
   const scenario = normalise(read);
   deriveFromGeometry(scenario, read, raw, file);
   validateScenario(scenario, file);
+  readUncertaintySections(scenario, raw, file);
   return scenario;
 }
 

@@ -22,7 +22,7 @@ function fieldSchema(field: Field): Schema {
     case 'text':
       return { description: field.description, type: 'string', maxLength: field.maxLength };
     case 'raw':
-      return { description: field.description };
+      return { description: field.description, ...(field.schema ?? {}) };
     case 'list':
       return { description: field.description, type: 'array', minItems: 1, maxItems: field.maxItems, items: fieldSchema(field.item) };
     case 'section': {

@@ -135,4 +135,52 @@ export interface Scenario {
   solver: SolverOptions;
   /** engineering-check thresholds given by the scenario (the rest are defaults) */
   limits?: Partial<EngineeringLimits>;
+  /** the scenario's own tolerances (`tolerances` section), when it has any */
+  tolerances?: Tolerance[];
+  /** the calibration the scenario carries (`calibration` section, written by `railpulse fit`) */
+  calibration?: Calibration;
+}
+
+/**
+ * A scenario value an uncertainty moves, and the values that move with it: a path whose default follows another
+ * (friction.staticCoefficient defaults to μ) moves by the same amount when the file leaves it to that default.
+ */
+export interface UncertainTarget {
+  path: string;
+  follows: string[];
+}
+
+/** One entry of the `tolerances` section, in SI. */
+export interface Tolerance {
+  /** where it was written, e.g. `tolerances[2]` (for messages) */
+  where: string;
+  /** the path as written: a scenario path, or `bank[*].…` for every group */
+  path: string;
+  /** uniform over ±spread, or normal with σ = spread */
+  distribution: 'uniform' | 'normal';
+  /** half-width a (uniform) or σ (normal): SI, or a fraction of the value when `relative` */
+  spread: number;
+  relative: boolean;
+  /** a bank[*] path: one draw moves every group together (e.g. one charger) instead of one draw a group */
+  common: boolean;
+  /** the concrete paths it moves (a wildcard expanded; a calibrated group left to the calibration) */
+  targets: UncertainTarget[];
+}
+
+/** The `calibration` section: fitted values with their joint covariance, and the record they came from. */
+export interface Calibration {
+  parameters: UncertainTarget[];
+  /** fitted values (SI), equal to the scenario's values at those paths */
+  values: number[];
+  /** covariance of the fitted values (SI), symmetric positive semi-definite */
+  covariance: number[][];
+  /** the measured record fitted, its SHA-256 and the date of the fit */
+  record: string;
+  recordSha256: string;
+  date: string;
+  /** the scenario file that was calibrated */
+  scenario?: string;
+  chiSquaredReduced?: number;
+  /** parameters the fit left on a bound: fitted, but with no uncertainty the fit could give */
+  onBound: string[];
 }

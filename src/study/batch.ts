@@ -7,13 +7,18 @@ import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
 import { parsePath, setPath, type PathStep } from '../scenario/paths.js';
 import { csvLine, jsonLine, rowObject, studyLayout, type RowLayout } from './rows.js';
+import { HEADLINE_KEYS, type Headline, type RunShot } from './headline.js';
+import { propagateModel } from './propagate.js';
+import { uncertaintyModel } from './uncertainInputs.js';
 
-export type RunShot = (scenario: Scenario, options?: { waveforms?: boolean }) => Shot;
+export type { RunShot } from './headline.js';
 
 /** What a runner needs once: the SI scenario (parsed in the main thread) and the varied paths. */
 export interface BatchContext {
   scenario: Scenario;
   paths: string[];
+  /** propagate the scenario's tolerances and calibration at every point (linear, 1 + 2k shots a point) */
+  uncertainty?: boolean;
 }
 
 export interface BatchRequest {
@@ -39,8 +44,15 @@ export interface BatchRunner {
   run(request: BatchRequest): BatchResult;
 }
 
+/** The standard uncertainties at one point (its own values: relative spreads scale with them); null without inputs. */
+function pointUncertainty(scenario: Scenario, shot: Shot, runShot: RunShot): Headline {
+  const model = uncertaintyModel(scenario);
+  if (!model) return Object.fromEntries(HEADLINE_KEYS.map((key) => [key, null])) as Headline;
+  return propagateModel(scenario, model, runShot, { nominal: shot, probeSpread: false }).standardUncertainty;
+}
+
 export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchRunner {
-  const layout = studyLayout(context.scenario, context.paths);
+  const layout = studyLayout(context.scenario, context.paths, context.uncertainty ?? false);
   const steps: PathStep[][] = context.paths.map((path) => parsePath(path)!);
   const dimensions = steps.length;
   return {
@@ -62,7 +74,8 @@ export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchR
           try {
             const shot = runShot(scenario, { waveforms: false });
             // the same assessment every command reads: the point's verdicts are the record's verdicts
-            row = rowObject(layout, index, values, shot.results, undefined, assessShot(scenario, shot));
+            const uncertainty = layout.uncertainty ? pointUncertainty(scenario, shot, runShot) : undefined;
+            row = rowObject(layout, index, values, shot.results, undefined, assessShot(scenario, shot), uncertainty);
           } catch (error) {
             row = rowObject(layout, index, values, null, error instanceof Error ? error.message : String(error));
           }

@@ -27,6 +27,8 @@ export interface SweepChoices {
   now?: Date;
   /** where default study directories go (default `studies`) */
   studiesRoot?: string;
+  /** add the standard uncertainties of the headline results at every point */
+  uncertainty?: boolean;
 }
 
 /** `--shard i/n`: 1 ≤ i ≤ n. */
@@ -77,7 +79,7 @@ export function makeSweepPlan(choices: SweepChoices): SweepPlan {
     design: { kind: design.kind, samples: design.kind === 'grid' ? null : design.count, seed: design.seed },
     points: design.count,
     shard: shard ? { ...shard, rule: SHARD_RULE } : null,
-    columns: studyLayout(choices.scenario, axes.map((axis) => axis.path)).columns,
+    columns: studyLayout(choices.scenario, axes.map((axis) => axis.path), choices.uncertainty ?? false).columns,
     created: (choices.now ?? new Date()).toISOString(),
     safety: designSafety(choices.scenario, axes),
   };

@@ -8,12 +8,15 @@
  * verdicts.peak-acceleration), the warnings joined by ";", an `error` column last. The verdicts come from the
  * assessment every command reads (src/checks/assess.ts). The CSV line is always made from the row object, so a line
  * rebuilt from points.jsonl is byte-identical.
+ * A study run with --uncertainty adds `uncertainty: { muzzleVelocity, … }` (the standard uncertainties of the
+ * headline results at that point, SI) to each row, and `uncertainty.<result>` columns after the results.
  */
 import type { Assessment } from '../checks/assess.js';
 import { checkIdsFor } from '../checks/shotChecks.js';
 import type { Scenario } from '../scenario/types.js';
 import { LOSS_KEYS, type ShotResults } from '../solve/types.js';
 import { getPath, parsePath, type PathStep } from '../scenario/paths.js';
+import { HEADLINE_KEYS, type Headline } from './headline.js';
 
 export interface RowLayout {
   /** the varied paths, in --vary order */
@@ -21,6 +24,8 @@ export interface RowLayout {
   groupCount: number;
   /** the check ids with a verdict column, in the checks' order */
   checkIds: string[];
+  /** rows carry the standard uncertainties of the headline results */
+  uncertainty: boolean;
   /** every CSV column, in order */
   columns: string[];
 }
@@ -54,18 +59,21 @@ export function resultColumns(groupCount: number): string[] {
   return [...SCALAR_RESULTS, ...modules];
 }
 
-export function rowLayout(paths: string[], groupCount: number, checkIds: string[] = []): RowLayout {
+export const UNCERTAINTY_COLUMNS = HEADLINE_KEYS.map((key) => `uncertainty.${key}`);
+
+export function rowLayout(paths: string[], groupCount: number, checkIds: string[] = [], uncertainty = false): RowLayout {
   return {
     paths,
     groupCount,
     checkIds,
-    columns: ['index', ...paths, ...resultColumns(groupCount), VERDICT_COLUMN, ...checkIds.map((id) => `${VERDICTS_PREFIX}${id}`), WARNINGS_COLUMN, 'error'],
+    uncertainty,
+    columns: ['index', ...paths, ...resultColumns(groupCount), ...(uncertainty ? UNCERTAINTY_COLUMNS : []), VERDICT_COLUMN, ...checkIds.map((id) => `${VERDICTS_PREFIX}${id}`), WARNINGS_COLUMN, 'error'],
   };
 }
 
 /** The layout of a study of `scenario` varying `paths`: its result columns and a verdict column per check. */
-export function studyLayout(scenario: Scenario, paths: string[]): RowLayout {
-  return rowLayout(paths, scenario.bank.length, checkIdsFor(scenario, paths));
+export function studyLayout(scenario: Scenario, paths: string[], uncertainty = false): RowLayout {
+  return rowLayout(paths, scenario.bank.length, checkIdsFor(scenario, paths), uncertainty);
 }
 
 export type RowObject = Record<string, unknown>;
@@ -77,6 +85,7 @@ export function rowObject(
   results: ShotResults | null,
   error?: string,
   assessment?: Pick<Assessment, 'checks' | 'warnings' | 'status'>,
+  uncertainty?: Headline,
 ): RowObject {
   const row: RowObject = { index };
   layout.paths.forEach((path, d) => {
@@ -89,6 +98,7 @@ export function rowObject(
       row.verdicts = Object.fromEntries(assessment.checks.map((check) => [check.id, check.verdict]));
       row[WARNINGS_COLUMN] = assessment.warnings.map((warning) => warning.id);
     }
+    if (uncertainty) row.uncertainty = uncertainty;
   } else row.error = (error ?? 'failed').replace(/\s+/g, ' ').trim();
   return row;
 }
@@ -106,7 +116,7 @@ export function csvHeader(layout: RowLayout): string {
 
 /** Precomputed lookups of the result columns, so formatting a row does not re-parse paths. */
 function makeResultSteps(layout: RowLayout): PathStep[][] {
-  return resultColumns(layout.groupCount).map((column) => parsePath(column)!);
+  return [...resultColumns(layout.groupCount), ...(layout.uncertainty ? UNCERTAINTY_COLUMNS : [])].map((column) => parsePath(column)!);
 }
 
 const stepsCache = new WeakMap<RowLayout, PathStep[][]>();

@@ -1,44 +1,59 @@
 /**
  * Bank sizing: the least stored energy that reaches a target muzzle velocity (or kinetic energy at exit) within
- * limits. Pure: the shot function is injected (the real solver in the CLI, a closed-form stand-in in tests).
+ * limits, over the charge voltage, the trigger times and the modules per group. Pure: the shot function is
+ * injected (the real solver in the CLI, a closed-form stand-in in tests).
  *
- * Search: for each candidate number of modules per group n (every group gets n modules), the charge voltages are
- * scaled by one factor k (keeping their ratios) and k is solved as the root of muzzleVelocity(k) − target by the
- * Illinois method (bracketed regula falsi) to 1e-4 of the target. With several groups, the trigger times of groups
- * 2… are then moved by a coordinate search (steps halving from a quarter period) to the least peak current, the
- * voltage re-solved at every trial; group g fires within g half periods of the start (beyond that the pulses no longer
- * overlap, so a later trigger cannot flatten the current). Limits are checked on each candidate's final design; the feasible candidate
- * with the least stored energy wins. All work is bounded in shots.
+ * Every group gets n modules (n = 1 … limits.modulesPerGroup, default 8 or the scenario's largest group) and the
+ * charge voltages keep the scenario's ratios, scaled by one factor k. For each n the trigger times of groups 2…
+ * and k are searched together (./sizeSearch.ts): at given triggers, k is the root of v(k) = required velocity, and
+ * stored energy ∝ k², so the least energy is the least root over the triggers that keep every limit. Peak current
+ * is a limit when limits.peakCurrent is given and, unless target.tieBreak is "none", the tie-break between designs
+ * whose stored energies agree within 0.1 %. The feasible candidate of least stored energy wins.
+ *
+ * With tolerances or a calibration in the scenario the target is met at a confidence (target.confidence, default
+ * 0.95): the nominal velocity must exceed the target by z·σ_v, z = Φ⁻¹(confidence), σ_v by linear propagation
+ * (./propagate.ts) at the design itself, and the peak current, acceleration and action integral must stay z·σ below
+ * their limits. σ depends on the design, so for each n the margin is iterated (search, propagate, re-solve) until it
+ * settles; the reversal and charge-voltage limits apply to the nominal design.
+ *
+ * The binding limits are those that stop a cheaper design: modulesPerGroup when one more module per group would
+ * store less energy (that design is sized too, to tell); a limit that alone keeps another module count from
+ * storing less energy (for the charge voltage: the energy it would need at the voltage that reaches the target,
+ * scaled as V²); a headline limit or the reversal when relaxing it by 5 % lets the search at the optimum's module
+ * count find less energy; the charge voltage when the design sits at it. With no feasible design they are the
+ * limits the nearest candidate breaks.
  */
+import { normalQuantile } from '../core/normal.js';
+import { NORMAL_REACH } from '../scenario/uncertainty.js';
 import type { Scenario } from '../scenario/types.js';
 import type { ShotResults } from '../solve/types.js';
-import type { RunShot } from './batch.js';
+import type { RunShot } from './headline.js';
+import { propagateModel } from './propagate.js';
+import { compareTrials, compassSearch, type LimitName, type LimitViolation, type SizingLimits, designOf, ENERGY_TIE, searchTriggers, tieBreakSearch, trialAt, type Headroom, type Requirement, type SearchContext, type Trial } from './sizeSearch.js';
+import { uncertaintyModel } from './uncertainInputs.js';
 
 export interface SizingTarget {
   /** m/s at exit */
   muzzleVelocity?: number;
   /** J at exit (converted with the armature mass) */
   kineticEnergy?: number;
+  /** with tolerances or a calibration: the probability with which the target must be met (0 < p < 1) */
+  confidence?: number;
+  /** among designs of equal stored energy, prefer the lower peak current (default) or take the first found */
+  tieBreak?: 'peakCurrent' | 'none';
 }
 
-export interface SizingLimits {
-  peakCurrent?: number;
-  peakAcceleration?: number;
-  actionIntegral?: number;
-  /** capacitor voltage reversal as a fraction of V0 (default: each group's ratedReversal) */
-  reversal?: number;
-  /** highest charge voltage of any group (V) */
-  chargeVoltage?: number;
-  /** most modules in a group (default: 8, or the scenario's largest group if larger) */
-  modulesPerGroup?: number;
-}
+export type { LimitName, LimitViolation, SizingLimits } from './sizeSearch.js';
 
-export type LimitName = 'peakCurrent' | 'peakAcceleration' | 'actionIntegral' | 'reversal' | 'chargeVoltage' | 'exit';
-
-export interface LimitViolation {
-  limit: LimitName;
-  value: number;
-  allowed: number;
+/** What the design meets at the stated confidence (linear propagation at the design). */
+export interface SizingConfidence {
+  level: number;
+  /** Φ⁻¹(level) */
+  z: number;
+  /** standard uncertainties at the design (SI) */
+  sigma: { muzzleVelocity: number; peakCurrent: number; peakAcceleration: number; actionIntegral: number };
+  /** nominal velocity − z σ_v: the velocity met with the stated probability */
+  velocityAtConfidence: number;
 }
 
 export interface SizingCandidate {
@@ -48,11 +63,12 @@ export interface SizingCandidate {
   /** per group (s) */
   triggers: number[];
   storedEnergy: number;
-  /** the target was reached within the voltage limit */
+  /** the required velocity was reached within the voltage limit */
   reached: boolean;
   results: ShotResults | null;
   violations: LimitViolation[];
   shots: number;
+  confidence: SizingConfidence | null;
 }
 
 export interface SizingResult {
@@ -60,8 +76,13 @@ export interface SizingResult {
   targetVelocity: number;
   best: SizingCandidate | null;
   candidates: SizingCandidate[];
-  /** the limits that stop the design: violated by the nearest candidate when infeasible; nearest to binding otherwise */
+  /** the limits that stop a cheaper design (see above); with no feasible design, those the nearest candidate breaks */
   binding: LimitName[];
+  /** the design with one module per group more than allowed, sized to tell whether the module count binds */
+  beyondModuleLimit: SizingCandidate | null;
+  /** the confidence the target is met with, or null for a nominal sizing (nothing uncertain) */
+  confidence: number | null;
+  notes: string[];
   /** the sized scenario (best candidate), SI */
   scenario: Scenario | null;
   shots: number;
@@ -70,15 +91,15 @@ export interface SizingResult {
 export interface SizingOptions {
   /** relative tolerance on the muzzle velocity (default 1e-4, well inside 0.1 %) */
   tolerance?: number;
-  /** shot budget for one module count (default 800) */
+  /** shot budget for one module count (default 4000) */
   shotsPerCount?: number;
   optimiseTriggers?: boolean;
 }
 
 const DEFAULT_MAX_MODULES = 8;
-const TRIAL_MAX_STEPS = 20_000;
-/** Group g fires no later than g half periods after the start: a later stagger no longer overlaps the pulses. */
-const MAX_STAGGER_HALF_PERIODS = 1;
+const DEFAULT_CONFIDENCE = 0.95;
+/** relax a limit by this much to see whether it binds */
+const RELAX = 1.05;
 
 export function targetVelocity(scenario: Scenario, target: SizingTarget): number {
   if (target.muzzleVelocity !== undefined) return target.muzzleVelocity;
@@ -86,156 +107,139 @@ export function targetVelocity(scenario: Scenario, target: SizingTarget): number
   throw new Error('sizing target needs muzzleVelocity or kineticEnergy');
 }
 
-interface Trial {
-  scale: number;
-  results: ShotResults;
+interface Sizer {
+  base: Scenario;
+  velocity: number;
+  limits: SizingLimits;
+  runShot: RunShot;
+  settings: Required<SizingOptions>;
+  tieBreak: boolean;
+  /** z of the confidence, 0 for a nominal sizing */
+  z: number;
 }
 
-/** Shots for one candidate design, counted against a budget. */
-function makeEvaluator(base: Scenario, modules: number, runShot: RunShot, budget: number) {
-  let shots = 0;
+function context(sizer: Sizer, modules: number, requirement: Requirement, limits = sizer.limits): SearchContext {
+  const highest = Math.max(...sizer.base.bank.map((group) => group.voltage));
   return {
-    get shots() {
-      return shots;
-    },
-    exhausted: () => shots >= budget,
-    design(scale: number, triggers: number[]): Scenario {
-      const scenario = structuredClone(base);
-      scenario.bank.forEach((group, g) => {
-        group.count = modules;
-        group.voltage = base.bank[g]!.voltage * scale;
-        group.trigger = triggers[g]!;
-      });
-      return scenario;
-    },
-    shot(scale: number, triggers: number[]): ShotResults {
-      shots += 1;
-      // A normal shot takes tens of steps; a trial the solver cannot finish should fail fast, not run to 1e6 steps.
-      const scenario = this.design(scale, triggers);
-      scenario.solver.maxSteps = Math.min(scenario.solver.maxSteps, TRIAL_MAX_STEPS);
-      return runShot(scenario, { waveforms: false }).results;
-    },
+    base: sizer.base,
+    modules,
+    runShot: sizer.runShot,
+    limits,
+    requirement,
+    maxScale: limits.chargeVoltage !== undefined ? limits.chargeVoltage / highest : Infinity,
+    tolerance: sizer.settings.tolerance,
+    budget: { shots: 0, limit: sizer.settings.shotsPerCount },
+    triggerFloor: triggerFloors(sizer.base),
   };
 }
-type Evaluator = ReturnType<typeof makeEvaluator>;
+
+/** A trigger with an absolute jitter tolerance must stay that far (±a, or 4σ) above 0, as the loader requires. */
+function triggerFloors(scenario: Scenario): number[] {
+  const floors = scenario.bank.map(() => 0);
+  for (const tolerance of scenario.tolerances ?? []) {
+    if (tolerance.relative) continue;
+    const reach = tolerance.distribution === 'uniform' ? tolerance.spread : NORMAL_REACH * tolerance.spread;
+    for (const target of tolerance.targets) {
+      const match = /^bank\[(\d+)\]\.trigger$/.exec(target.path);
+      if (match) floors[Number(match[1])] = reach;
+    }
+  }
+  return floors;
+}
+
+/** The longest exit time of the starting designs: a trigger later than that cannot help. */
+function triggerSpan(sizer: Sizer, modules: number, starts: Trial[]): number {
+  const exits = starts.map((trial) => trial.results?.exitTime ?? 0).filter((t) => t > 0);
+  if (exits.length > 0) return Math.max(...exits);
+  const group = sizer.base.bank[0]!;
+  const quarter = (Math.PI / 2) * Math.sqrt((group.inductance / modules + sizer.base.feed.inductance) * group.capacitance * modules);
+  return 2 * sizer.base.bank.length * quarter;
+}
+
+/** The best design for n modules per group at this requirement: scan and compass search, or only the voltage. */
+function searchCount(sizer: Sizer, ctx: SearchContext): Trial {
+  const given = sizer.base.bank.map((group) => group.trigger);
+  const initial = trialAt(ctx, given, 1);
+  if (!sizer.settings.optimiseTriggers || sizer.base.bank.length === 1) return initial;
+  const together = given.map((_, g) => (g === 0 ? given[0]! : Math.max(given[0]!, ctx.triggerFloor[g]!)));
+  const simultaneous = trialAt(ctx, together, initial.scale);
+  const span = triggerSpan(sizer, ctx.modules, [initial, simultaneous]);
+  const start = compareTrials(initial, simultaneous) <= 0 ? initial : simultaneous;
+  const best = searchTriggers(ctx, start, span, [given, together]);
+  return sizer.tieBreak ? tieBreakSearch(ctx, best, span) : best;
+}
+
+
+/** σ of the headline results at a design, by linear propagation. */
+function sigmaAt(sizer: Sizer, modules: number, trial: Trial): SizingConfidence['sigma'] | null {
+  const design = designOf(sizer.base, modules, trial.scale, trial.triggers);
+  const model = uncertaintyModel(design);
+  if (!model) return null;
+  const linear = propagateModel(design, model, sizer.runShot, { probeSpread: false });
+  const s = linear.standardUncertainty;
+  if (s.muzzleVelocity === null) return null;
+  return { muzzleVelocity: s.muzzleVelocity, peakCurrent: s.peakCurrent ?? 0, peakAcceleration: s.peakAcceleration ?? 0, actionIntegral: s.actionIntegral ?? 0 };
+}
+
+function requirementFor(sizer: Sizer, sigma: SizingConfidence['sigma'] | null): Requirement {
+  if (!sigma || sizer.z === 0) return { velocity: sizer.velocity, headroom: {} };
+  const headroom: Headroom = { peakCurrent: sizer.z * sigma.peakCurrent, peakAcceleration: sizer.z * sigma.peakAcceleration, actionIntegral: sizer.z * sigma.actionIntegral };
+  return { velocity: sizer.velocity + sizer.z * sigma.muzzleVelocity, headroom };
+}
 
 /**
- * Solve muzzleVelocity(scale) = target. Returns the trial at the root, or the trial at the highest allowed scale when
- * the target cannot be reached (reached = false).
+ * Size n modules per group. At a confidence: search at the nominal target, then repeat — propagate at the design,
+ * raise the requirement by z σ, search again from there (compass only, then the voltage only) — until the
+ * required velocity moves by less than the tolerance.
  */
-function solveScale(evaluate: Evaluator, triggers: number[], target: number, start: number, maxScale: number, tolerance: number, growth: number): { trial: Trial; reached: boolean } {
-  const at = (scale: number): Trial => ({ scale, results: evaluate.shot(scale, triggers) });
-  const error = (trial: Trial): number => trial.results.muzzleVelocity - target;
-  let a = at(Math.min(start, maxScale));
-  if (Math.abs(error(a)) <= tolerance * target) return { trial: a, reached: true };
-  let b = a;
-  // Bracket: step the scale by `growth` towards the target until the sign changes (or the voltage limit is hit).
-  for (let i = 0; i < 60 && Math.sign(error(a)) === Math.sign(error(b)); i += 1) {
-    if (error(b) < 0) {
-      if (b.scale >= maxScale) return { trial: b, reached: false };
-      a = b;
-      b = at(Math.min(b.scale * growth, maxScale));
-    } else {
-      a = b;
-      b = at(b.scale / growth);
+function sizeForCount(sizer: Sizer, modules: number, limits = sizer.limits, from?: Trial): { trial: Trial; confidence: SizingConfidence | null; shots: number } {
+  let requirement: Requirement = from && sizer.z > 0 ? requirementFor(sizer, sigmaAt(sizer, modules, from)) : { velocity: sizer.velocity, headroom: {} };
+  let ctx = context(sizer, modules, requirement, limits);
+  let shots = 0;
+  let trial = from ? compassSearch(ctx, trialAt(ctx, from.triggers, from.scale), triggerSpanOf(from, sizer, modules)) : searchCount(sizer, ctx);
+  shots += ctx.budget.shots;
+  let sigma: SizingConfidence['sigma'] | null = null;
+  if (sizer.z > 0 && trial.reached) {
+    for (let iteration = 0; iteration < 6; iteration++) {
+      sigma = sigmaAt(sizer, modules, trial);
+      shots += 1 + 2 * (uncertaintyModel(sizer.base)?.inputs.length ?? 0);
+      const next = requirementFor(sizer, sigma);
+      const moved = Math.abs(next.velocity - requirement.velocity);
+      requirement = next;
+      if (moved <= 0.5 * sizer.settings.tolerance * sizer.velocity && iteration > 0) break;
+      ctx = context(sizer, modules, requirement, limits);
+      trial = iteration === 0 && sizer.settings.optimiseTriggers && sizer.base.bank.length > 1 ? compassSearch(ctx, trialAt(ctx, trial.triggers, trial.scale), triggerSpanOf(trial, sizer, modules)) : trialAt(ctx, trial.triggers, trial.scale);
+      shots += ctx.budget.shots;
+      if (!trial.reached) break;
+    }
+    if (sizer.tieBreak && sizer.settings.optimiseTriggers && trial.reached) {
+      ctx = context(sizer, modules, requirement, limits);
+      trial = tieBreakSearch(ctx, trial, triggerSpanOf(trial, sizer, modules));
+      shots += ctx.budget.shots;
     }
   }
-  if (Math.sign(error(a)) === Math.sign(error(b))) return { trial: b, reached: error(b) >= 0 };
-  // Illinois: regula falsi that halves the weight of an end kept twice, so both ends converge.
-  let fa = error(a);
-  let fb = error(b);
-  let side = 0;
-  for (let i = 0; i < 60; i += 1) {
-    const falsePosition = (a.scale * fb - b.scale * fa) / (fb - fa);
-    // Equal end values (or a degenerate bracket) give no usable secant: bisect instead.
-    const inside = Number.isFinite(falsePosition) && falsePosition > Math.min(a.scale, b.scale) && falsePosition < Math.max(a.scale, b.scale);
-    const scale = inside ? falsePosition : (a.scale + b.scale) / 2;
-    const c = at(scale);
-    const fc = error(c);
-    if (Math.abs(fc) <= tolerance * target || Math.abs(b.scale - a.scale) <= 1e-12 * scale) return { trial: c, reached: true };
-    if (Math.sign(fc) === Math.sign(fb)) {
-      b = c;
-      fb = fc;
-      if (side === -1) fa /= 2;
-      side = -1;
-    } else {
-      a = c;
-      fa = fc;
-      if (side === 1) fb /= 2;
-      side = 1;
-    }
-  }
-  const best = Math.abs(fa) < Math.abs(fb) ? a : b;
-  return { trial: best, reached: Math.abs(error(best)) <= tolerance * target };
+  const confidence = sigma && sizer.z > 0 && trial.results
+    ? { level: 0, z: sizer.z, sigma, velocityAtConfidence: trial.results.muzzleVelocity - sizer.z * sigma.muzzleVelocity }
+    : null;
+  return { trial, confidence, shots };
 }
 
-function quarterPeriod(scenario: Scenario, modules: number): number {
-  const group = scenario.bank[0]!;
-  return (Math.PI / 2) * Math.sqrt((group.inductance / modules + scenario.feed.inductance) * group.capacitance * modules);
+function triggerSpanOf(trial: Trial, sizer: Sizer, modules: number): number {
+  return triggerSpan(sizer, modules, [trial]);
 }
 
-function violations(scenario: Scenario, results: ShotResults, limits: SizingLimits): LimitViolation[] {
-  const found: LimitViolation[] = [];
-  const check = (limit: LimitName, value: number, allowed: number | undefined): void => {
-    if (allowed !== undefined && value > allowed) found.push({ limit, value, allowed });
-  };
-  if (results.outcome !== 'exited') found.push({ limit: 'exit', value: results.finalPosition, allowed: scenario.rails.length });
-  check('peakCurrent', results.peakCurrent, limits.peakCurrent);
-  check('peakAcceleration', results.peakAcceleration, limits.peakAcceleration);
-  check('actionIntegral', results.actionIntegral, limits.actionIntegral);
-  check('chargeVoltage', Math.max(...scenario.bank.map((group) => group.voltage)), limits.chargeVoltage);
-  results.modules.forEach((module, g) => check('reversal', module.reversal, limits.reversal ?? scenario.bank[g]?.ratedReversal));
-  return found;
-}
-
-function sizeForCount(base: Scenario, modules: number, target: number, limits: SizingLimits, runShot: RunShot, options: Required<SizingOptions>): SizingCandidate {
-  const evaluate = makeEvaluator(base, modules, runShot, options.shotsPerCount);
-  const highest = Math.max(...base.bank.map((group) => group.voltage));
-  const maxScale = limits.chargeVoltage !== undefined ? limits.chargeVoltage / highest : Infinity;
-  let triggers = base.bank.map((group) => group.trigger);
-  let solved = solveScale(evaluate, triggers, target, 1, maxScale, options.tolerance, 1.5);
-  if (solved.reached && options.optimiseTriggers && base.bank.length > 1) {
-    const objective = (trial: { trial: Trial; reached: boolean }): number => (trial.reached ? trial.trial.results.peakCurrent : Infinity);
-    const initialStep = quarterPeriod(base, modules);
-    let step = initialStep;
-    while (step > initialStep / 64 && !evaluate.exhausted()) {
-      let improved = false;
-      for (let g = 1; g < triggers.length && !evaluate.exhausted(); g += 1) {
-        for (const direction of [1, -1]) {
-          const moved = [...triggers];
-          moved[g] = Math.min(g * MAX_STAGGER_HALF_PERIODS * 2 * initialStep, Math.max(0, moved[g]! + direction * step));
-          if (moved[g] === triggers[g]) continue;
-          let trial: { trial: Trial; reached: boolean };
-          try {
-            trial = solveScale(evaluate, moved, target, solved.trial.scale, maxScale, options.tolerance, 1.05);
-          } catch {
-            continue; // a stagger the solver cannot complete is simply not an improvement
-          }
-          if (objective(trial) < objective(solved)) {
-            triggers = moved;
-            solved = trial;
-            improved = true;
-            break;
-          }
-        }
-      }
-      if (!improved) step /= 2;
-    }
-  }
-  const design = evaluate.design(solved.trial.scale, triggers);
-  const found = violations(design, solved.trial.results, limits);
-  if (!solved.reached && !found.some((v) => v.limit === 'chargeVoltage')) {
-    found.push({ limit: 'chargeVoltage', value: Math.max(...design.bank.map((group) => group.voltage)), allowed: limits.chargeVoltage ?? Infinity });
-  }
+function candidateOf(sizer: Sizer, modules: number, sized: ReturnType<typeof sizeForCount>, level: number | null): SizingCandidate {
+  const design = designOf(sizer.base, modules, sized.trial.scale, sized.trial.triggers);
   return {
     modulesPerGroup: modules,
     chargeVoltages: design.bank.map((group) => group.voltage),
-    triggers,
-    storedEnergy: design.bank.reduce((sum, group) => sum + 0.5 * group.count * group.capacitance * group.voltage ** 2, 0),
-    reached: solved.reached,
-    results: solved.trial.results,
-    violations: found,
-    shots: evaluate.shots,
+    triggers: sized.trial.triggers,
+    storedEnergy: sized.trial.storedEnergy,
+    reached: sized.trial.reached,
+    results: sized.trial.results,
+    violations: sized.trial.violations,
+    shots: sized.shots,
+    confidence: sized.confidence && level !== null ? { ...sized.confidence, level } : null,
   };
 }
 
@@ -243,40 +247,84 @@ function worstRatio(candidate: SizingCandidate): number {
   return Math.max(...candidate.violations.map((v) => (v.allowed > 0 && Number.isFinite(v.allowed) ? v.value / v.allowed : Infinity)));
 }
 
-/** Which limit is closest to binding in a feasible design (largest value/limit). */
-function nearestLimit(candidate: SizingCandidate, limits: SizingLimits): LimitName[] {
-  const results = candidate.results;
-  if (!results) return [];
-  const ratios: [LimitName, number][] = [];
-  if (limits.peakCurrent) ratios.push(['peakCurrent', results.peakCurrent / limits.peakCurrent]);
-  if (limits.peakAcceleration) ratios.push(['peakAcceleration', results.peakAcceleration / limits.peakAcceleration]);
-  if (limits.actionIntegral) ratios.push(['actionIntegral', results.actionIntegral / limits.actionIntegral]);
-  if (limits.chargeVoltage) ratios.push(['chargeVoltage', Math.max(...candidate.chargeVoltages) / limits.chargeVoltage]);
-  ratios.sort((x, y) => y[1] - x[1]);
-  return ratios.length > 0 ? [ratios[0]![0]] : [];
+const RELAXABLE = ['peakCurrent', 'peakAcceleration', 'actionIntegral', 'reversal'] as const;
+
+/** The limits that stop a cheaper design at the optimum (see the header). */
+function bindingLimits(sizer: Sizer, candidates: SizingCandidate[], best: SizingCandidate, bestTrial: Trial, beyond: SizingCandidate | null): { binding: LimitName[]; shots: number } {
+  const binding: LimitName[] = [];
+  let shots = 0;
+  // another module count that only one limit keeps from storing less energy; a design short of the target at the
+  // voltage limit would need about (V_needed/V_limit)² of its energy, so the voltage limit binds only when that is less
+  for (const candidate of candidates) {
+    const names = [...new Set(candidate.violations.map((v) => v.limit))];
+    if (names.length !== 1 || names[0] === 'exit') continue;
+    const needed = names[0] === 'chargeVoltage' ? candidate.storedEnergy * Math.max(1, ...candidate.violations.map((v) => v.value / v.allowed)) ** 2 : candidate.storedEnergy;
+    if (needed < best.storedEnergy * (1 - ENERGY_TIE) && !binding.includes(names[0]!)) binding.push(names[0]!);
+  }
+  if (beyond && beyond.violations.length === 0 && beyond.storedEnergy < best.storedEnergy * (1 - ENERGY_TIE)) binding.push('modulesPerGroup');
+  const results = best.results!;
+  const valueOf: Record<(typeof RELAXABLE)[number], number> = {
+    peakCurrent: results.peakCurrent + (best.confidence ? sizer.z * best.confidence.sigma.peakCurrent : 0),
+    peakAcceleration: results.peakAcceleration + (best.confidence ? sizer.z * best.confidence.sigma.peakAcceleration : 0),
+    actionIntegral: results.actionIntegral + (best.confidence ? sizer.z * best.confidence.sigma.actionIntegral : 0),
+    reversal: Math.max(...results.modules.map((m, g) => m.reversal / (sizer.limits.reversal ?? sizer.base.bank[g]?.ratedReversal ?? Infinity))),
+  };
+  for (const name of RELAXABLE) {
+    const allowed = name === 'reversal' ? 1 : sizer.limits[name];
+    if (allowed === undefined || !(valueOf[name] >= 0.9 * allowed)) continue;
+    const relaxed: SizingLimits = { ...sizer.limits };
+    if (name === 'reversal') {
+      relaxed.reversal = RELAX * Math.max(...results.modules.map((_, g) => sizer.limits.reversal ?? sizer.base.bank[g]?.ratedReversal ?? 0));
+    } else relaxed[name] = RELAX * allowed;
+    const again = sizeForCount(sizer, best.modulesPerGroup, relaxed, bestTrial);
+    shots += again.shots;
+    if (again.trial.violations.length === 0 && again.trial.storedEnergy < best.storedEnergy * (1 - ENERGY_TIE) && !binding.includes(name)) binding.push(name);
+  }
+  if (sizer.limits.chargeVoltage !== undefined && Math.max(...best.chargeVoltages) >= sizer.limits.chargeVoltage * (1 - 1e-3) && !binding.includes('chargeVoltage')) binding.push('chargeVoltage');
+  return { binding, shots };
 }
 
 export function sizeBank(scenario: Scenario, target: SizingTarget, limits: SizingLimits, runShot: RunShot, options: SizingOptions = {}): SizingResult {
-  const settings: Required<SizingOptions> = { tolerance: 1e-4, shotsPerCount: 800, optimiseTriggers: true, ...options };
+  const settings: Required<SizingOptions> = { tolerance: 1e-4, shotsPerCount: 4000, optimiseTriggers: true, ...options };
   const velocity = targetVelocity(scenario, target);
+  const uncertain = uncertaintyModel(scenario) !== null;
+  const notes: string[] = [];
+  const level = uncertain ? target.confidence ?? DEFAULT_CONFIDENCE : null;
+  if (uncertain && target.confidence === undefined) notes.push(`the scenario carries tolerances or a calibration: the target is met with ${DEFAULT_CONFIDENCE} probability (the default; set target.confidence)`);
+  if (!uncertain && target.confidence !== undefined) notes.push('target.confidence has no effect: the scenario has no tolerances and no calibration, so the sizing is nominal');
+  const sizer: Sizer = { base: scenario, velocity, limits, runShot, settings, tieBreak: target.tieBreak !== 'none', z: level === null ? 0 : normalQuantile(level) };
   const largest = Math.max(...scenario.bank.map((group) => group.count));
   const maxModules = limits.modulesPerGroup ?? Math.max(DEFAULT_MAX_MODULES, largest);
   const candidates: SizingCandidate[] = [];
+  const trials: Trial[] = [];
   for (let modules = 1; modules <= maxModules; modules += 1) {
-    candidates.push(sizeForCount(scenario, modules, velocity, limits, runShot, settings));
+    const sized = sizeForCount(sizer, modules);
+    trials.push(sized.trial);
+    candidates.push(candidateOf(sizer, modules, sized, level));
   }
+  let shots = candidates.reduce((sum, candidate) => sum + candidate.shots, 0);
   const feasible = candidates.filter((candidate) => candidate.violations.length === 0);
-  const best = feasible.reduce<SizingCandidate | null>((winner, candidate) => (!winner || candidate.storedEnergy < winner.storedEnergy ? candidate : winner), null);
-  const shots = candidates.reduce((sum, candidate) => sum + candidate.shots, 0);
+  // the least stored energy; within 0.1 % of it, the least peak current (the tie-break), else the fewest modules
+  const least = Math.min(...feasible.map((candidate) => candidate.storedEnergy));
+  const tied = feasible.filter((candidate) => candidate.storedEnergy <= least * (1 + ENERGY_TIE));
+  const best = tied.reduce<SizingCandidate | null>((winner, candidate) => (!winner || (sizer.tieBreak && candidate.results!.peakCurrent < winner.results!.peakCurrent) ? candidate : winner), null);
   if (!best) {
     const nearest = candidates.reduce((winner, candidate) => (worstRatio(candidate) < worstRatio(winner) ? candidate : winner));
-    return { feasible: false, targetVelocity: velocity, best: null, candidates, binding: [...new Set(nearest.violations.map((v) => v.limit))], scenario: null, shots };
+    return { feasible: false, targetVelocity: velocity, best: null, candidates, binding: [...new Set(nearest.violations.map((v) => v.limit))], beyondModuleLimit: null, confidence: level, notes, scenario: null, shots };
   }
+  let beyond: SizingCandidate | null = null;
+  if (best.modulesPerGroup === maxModules) {
+    const sized = sizeForCount(sizer, maxModules + 1);
+    beyond = candidateOf(sizer, maxModules + 1, sized, level);
+    shots += sized.shots;
+  }
+  const found = bindingLimits(sizer, candidates, best, trials[best.modulesPerGroup - 1]!, beyond);
+  shots += found.shots;
   const sized = structuredClone(scenario);
   sized.bank.forEach((group, g) => {
     group.count = best.modulesPerGroup;
     group.voltage = best.chargeVoltages[g]!;
     group.trigger = best.triggers[g]!;
   });
-  return { feasible: true, targetVelocity: velocity, best, candidates, binding: nearestLimit(best, limits), scenario: sized, shots };
+  return { feasible: true, targetVelocity: velocity, best, candidates, binding: found.binding, beyondModuleLimit: beyond, confidence: level, notes, scenario: sized, shots };
 }

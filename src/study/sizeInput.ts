@@ -1,7 +1,10 @@
 /**
  * The optional `target` and `limits` keys of a scenario file, read for `railpulse size`:
  *
- *   "target": { "muzzleVelocity": "250 m/s" }            or { "kineticEnergy": "300 J" } (exactly one)
+ *   "target": { "muzzleVelocity": "250 m/s" }            or { "kineticEnergy": "300 J" } (exactly one), and optionally
+ *             "confidence": 0.95 (or "95 %"): with tolerances or a calibration, the probability the target must be met
+ *             with (default 0.95 when the scenario carries either), and "tieBreak": "peakCurrent" (default) or "none":
+ *             among designs of equal stored energy (within 0.1 %) prefer the lower peak current
  *   "limits": { "peakCurrent": "120 kA", "peakAcceleration": "2e6 m/s^2", "actionIntegral": "5e6 A^2 s",
  *               "reversal": 0.2, "chargeVoltage": "10 kV", "modulesPerGroup": 8 }   (all optional)
  *
@@ -20,7 +23,7 @@ import { LIMIT_SOURCES } from '../scenario/limits.js';
 
 const ACTION: Dimension = { si: 'A^2 s', noun: 'an action integral (A²·s)', display: 'A²·s' };
 
-const TARGET_KEYS: Record<keyof SizingTarget, Dimension> = {
+const TARGET_KEYS: Record<'muzzleVelocity' | 'kineticEnergy', Dimension> = {
   muzzleVelocity: DIMENSIONS.velocity,
   kineticEnergy: DIMENSIONS.energy,
 };
@@ -69,16 +72,40 @@ function readQuantities<K extends string>(values: Record<string, unknown>, keys:
   return out;
 }
 
-export function readSizingInput(file: string): SizingInput {
-  const source = readScenarioSource(file);
-  const raw = parseJson(source, file);
+/** `confidence`: a probability strictly between 0 and 1, as a number or a percentage. */
+function readConfidence(value: unknown, file: string): number {
+  const percent = typeof value === 'string' ? /^\s*([0-9.]+(?:[eE][-+]?\d+)?)\s*%\s*$/.exec(value) : null;
+  const confidence = percent ? Number(percent[1]) / 100 : value;
+  if (typeof confidence !== 'number' || !(confidence > 0 && confidence < 1)) {
+    throw new InputError('target.confidence', `expected a probability between 0 and 1 (exclusive), e.g. 0.95 or "95 %", got ${JSON.stringify(value)}`, file);
+  }
+  return confidence;
+}
+
+/** The scenario's `target` section, or undefined when it has none. */
+export function readTarget(raw: Record<string, unknown>, file: string): SizingTarget | undefined {
   const targetRaw = section(raw, 'target', file);
-  const limitsRaw = section(raw, 'limits', file) ?? {};
-  if (!targetRaw) throw new InputError('target', 'size needs a target in the scenario, e.g. "target": { "muzzleVelocity": "250 m/s" }', file);
-  const target = readQuantities(targetRaw, TARGET_KEYS, 'target', file);
+  if (!targetRaw) return undefined;
+  const target: SizingTarget = readQuantities(targetRaw, TARGET_KEYS, 'target', file, ['confidence', 'tieBreak']);
   if ((target.muzzleVelocity === undefined) === (target.kineticEnergy === undefined)) {
     throw new InputError('target', 'give exactly one of muzzleVelocity or kineticEnergy', file);
   }
+  if (targetRaw.confidence !== undefined) target.confidence = readConfidence(targetRaw.confidence, file);
+  if (targetRaw.tieBreak !== undefined) {
+    if (targetRaw.tieBreak !== 'peakCurrent' && targetRaw.tieBreak !== 'none') {
+      throw new InputError('target.tieBreak', `expected "peakCurrent" or "none", got ${JSON.stringify(targetRaw.tieBreak)}`, file);
+    }
+    target.tieBreak = targetRaw.tieBreak;
+  }
+  return target;
+}
+
+export function readSizingInput(file: string): SizingInput {
+  const source = readScenarioSource(file);
+  const raw = parseJson(source, file);
+  const target = readTarget(raw, file);
+  const limitsRaw = section(raw, 'limits', file) ?? {};
+  if (!target) throw new InputError('target', 'size needs a target in the scenario, e.g. "target": { "muzzleVelocity": "250 m/s" }', file);
   const checkKeys = Object.keys(LIMIT_SOURCES).filter((key) => !(key in LIMIT_KEYS));
   const limits: SizingLimits = readQuantities(limitsRaw, LIMIT_KEYS, 'limits', file, ['modulesPerGroup', ...checkKeys]);
   if (limitsRaw.modulesPerGroup !== undefined) {
@@ -88,5 +115,11 @@ export function readSizingInput(file: string): SizingInput {
     }
     limits.modulesPerGroup = count;
   }
-  return { scenario: scenarioFromRaw(raw, file), raw, sha256: createHash('sha256').update(source).digest('hex'), target, limits };
+  const scenario = scenarioFromRaw(raw, file);
+  scenario.calibration?.parameters.forEach((parameter, i) => {
+    if (/^bank\[\d+\]\.(voltage|trigger)$/.test(parameter.path)) {
+      throw new InputError(`calibration.parameters[${i}]`, `size sets every charge voltage and trigger time, so a calibration of ${parameter.path} cannot carry over to the sized design; remove it from the calibration`, file);
+    }
+  });
+  return { scenario, raw, sha256: createHash('sha256').update(source).digest('hex'), target, limits };
 }

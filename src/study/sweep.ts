@@ -31,7 +31,7 @@ import {
 import { setPath } from '../scenario/paths.js';
 import { makeWorkerPool, type PointRunner } from './pool.js';
 import { silentProgress, type ProgressSink } from './progress.js';
-import { csvHeader, csvLine, studyLayout, type RowLayout } from './rows.js';
+import { csvHeader, csvLine, studyLayout, UNCERTAINTY_COLUMNS, type RowLayout } from './rows.js';
 
 export interface SweepPlan {
   /** the base scenario, SI, parsed once in the main thread */
@@ -89,7 +89,8 @@ export function defaultWorkerUrl(): URL {
 
 export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Promise<SweepSummary> {
   const started = performance.now();
-  const layout = studyLayout(plan.scenario, plan.design.axes.map((axis) => axis.path));
+  const uncertainty = plan.manifest.columns.includes(UNCERTAINTY_COLUMNS[0]!);
+  const layout = studyLayout(plan.scenario, plan.design.axes.map((axis) => axis.path), uncertainty);
   const positions = shardPositions(plan.design.count, plan.manifest.shard);
   // A folder that holds this very study (a requeued or resubmitted cluster task, a second run of the same command)
   // is continued, never refused and never overwritten; one that holds anything else is refused.
@@ -102,7 +103,7 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
   const requestedJobs = options.jobs ?? availableParallelism();
   const batchSize = options.batchSize ?? Math.max(1, Math.min(64, Math.ceil(remaining / (requestedJobs * 4))));
   const jobs = Math.max(1, Math.min(requestedJobs, Math.ceil(remaining / batchSize)));
-  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths };
+  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths, uncertainty };
   const runner = (options.makeRunner ?? ((ctx, n) => makeWorkerPool(defaultWorkerUrl(), ctx, n)))(context, jobs);
   const progress = options.progress?.(remaining) ?? silentProgress;
   const writer = openPointsWriter(plan.outDir);
