@@ -14,9 +14,14 @@ import { loadScenarioFile } from '../src/scenario/load.js';
 import { runShot } from '../src/solve/shot.js';
 import type { Scenario } from '../src/scenario/types.js';
 import type { Shot } from '../src/solve/types.js';
+import { PROFILE_PHASES, createProfile } from '../src/solve/profile.js';
 
 const SCENARIO_DIR = 'scenarios';
-const CLI_RUNS = 5;
+const CLI_RUNS = 11;
+/** Targets (issue 16), printed beside the figures. */
+const TARGET_SHOT_MS = 0.25;
+const TARGET_SHOT_SCENARIO = 'staggered-bank';
+const TARGET_PROCESS_S = 0.25;
 
 interface Timing {
   /** median wall time per shot, ms */
@@ -72,6 +77,7 @@ console.log(`railpulse shot benchmark — node ${process.version}, ${cpus().leng
 console.log(`load average at start: ${loadavg().map((l) => l.toFixed(2)).join(' ')} (a busy machine inflates every figure)`);
 console.log('');
 
+let targetShot: Timing | null = null;
 const header = [
   pad('scenario', 24),
   pad('off ms', 9),
@@ -92,6 +98,7 @@ for (const file of demos) {
   const off = timeShots(scenario, false, 50, 300, 2);
   const on = timeShots(scenario, true, 5, 30, 2);
   const stats = off.shot.stats;
+  if (file === `${TARGET_SHOT_SCENARIO}.json`) targetShot = off;
   console.log(
     [
       pad(file.replace(/\.json$/, ''), 24),
@@ -108,6 +115,37 @@ for (const file of demos) {
   );
 }
 
+if (targetShot) {
+  const t = targetShot as Timing;
+  console.log(`target: ${TARGET_SHOT_SCENARIO}, waveforms off, ≤ ${TARGET_SHOT_MS} ms per shot in-process on one core; measured ${ms(t.wall)} ms (cpu ${ms(t.cpu)} ms): ${t.wall <= TARGET_SHOT_MS ? 'met' : 'missed'}`);
+}
+
+// Where the time of a shot goes: the same shots with the opt-in profile (runShot's `profile` option). The clock
+// reads inflate the total somewhat, so the phases are shown as shares of the profiled time.
+console.log('');
+console.log('where a shot goes (waveforms off; profiled shots, shares of the profiled time; "dense" = dense-output evaluations per shot)');
+const phaseHeader = [pad('scenario', 24), pad('prof ms', 8), ...PROFILE_PHASES.map((p) => pad(p, p.length < 8 ? 8 : p.length + 1)), pad('dense', 7), pad('rhs/step', 9)].join(' ');
+console.log(phaseHeader);
+console.log('-'.repeat(phaseHeader.length));
+for (const file of demos) {
+  const { scenario } = loadScenarioFile(join(SCENARIO_DIR, file));
+  for (let k = 0; k < 30; k++) runShot(scenario, { waveforms: false, profile: createProfile() });
+  const profile = createProfile();
+  let shot = runShot(scenario, { waveforms: false, profile });
+  const start = performance.now();
+  while (profile.shots < 200 || performance.now() - start < 1000) shot = runShot(scenario, { waveforms: false, profile });
+  const total = PROFILE_PHASES.reduce((sum, p) => sum + profile.ms[p], 0);
+  console.log(
+    [
+      pad(file.replace(/\.json$/, ''), 24),
+      pad(ms(total / profile.shots), 8),
+      ...PROFILE_PHASES.map((p) => pad(`${((100 * profile.ms[p]) / total).toFixed(1)} %`, p.length < 8 ? 8 : p.length + 1)),
+      pad((profile.denseEvaluations / profile.shots).toFixed(0), 7),
+      pad((shot.stats.rhsEvaluations / Math.max(1, shot.stats.steps)).toFixed(1), 9),
+    ].join(' '),
+  );
+}
+
 console.log('');
 console.log(`whole process, median of ${CLI_RUNS}: node bin/railpulse.js run <demo> --json (bundled CLI, dist/railpulse.mjs)`);
 const cliHeader = [pad('scenario', 24), pad('--no-report s', 14), pad('with report s', 14)].join(' ');
@@ -115,6 +153,7 @@ console.log(cliHeader);
 console.log('-'.repeat(cliHeader.length));
 // `run` writes its HTML record by default; the second column measures that path into a temporary folder so the
 // benchmark leaves nothing in reports/.
+let worstBare = 0;
 const reportDir = mkdtempSync(join(tmpdir(), 'railpulse-bench-'));
 try {
   for (const file of demos) {
@@ -123,7 +162,9 @@ try {
     const withReport = timeCli(['run', path, '--json', '--report', reportDir]);
     const show = (v: number | string) => (typeof v === 'number' ? v.toFixed(3) : v);
     console.log([pad(file.replace(/\.json$/, ''), 24), pad(show(bare), 14), pad(show(withReport), 14)].join(' '));
+    if (typeof bare === 'number') worstBare = Math.max(worstBare, bare);
   }
 } finally {
   rmSync(reportDir, { recursive: true, force: true });
 }
+console.log(`target: --no-report ≤ ${TARGET_PROCESS_S} s for every demo; slowest ${worstBare.toFixed(3)} s (${worstBare <= TARGET_PROCESS_S ? 'met' : 'missed'}); load average now ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
