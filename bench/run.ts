@@ -7,16 +7,21 @@
  * is printed beside the wall time because a busy machine inflates wall time; the load average is printed too.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { loadScenarioFile } from '../src/scenario/load.js';
 import { runShot } from '../src/solve/shot.js';
 import type { Scenario } from '../src/scenario/types.js';
 import type { Shot } from '../src/solve/types.js';
+import { PROFILE_PHASES, createProfile } from '../src/solve/profile.js';
 
 const SCENARIO_DIR = 'scenarios';
-const CLI_RUNS = 5;
+const CLI_RUNS = Number(process.env.RAILPULSE_BENCH_CLI_RUNS ?? 11);
+/** Targets (issue 16), printed beside the figures. */
+const TARGET_SHOT_MS = 0.25;
+const TARGET_SHOT_SCENARIO = 'staggered-bank';
+const TARGET_PROCESS_S = 0.25;
 
 interface Timing {
   /** median wall time per shot, ms */
@@ -48,16 +53,32 @@ function timeShots(scenario: Scenario, waveforms: boolean, warmup: number, count
   return { wall: median(times), cpu: (cpu.user + cpu.system) / 1000 / times.length, shot };
 }
 
-/** Median wall time of a whole CLI process, in seconds. */
+/** CPU seconds (user + system, all threads) of each timed process, by /usr/bin/time when present. */
+const cliCpu: number[] = [];
+
+/**
+ * Median wall time of a whole CLI process, in seconds; the median CPU time of the same runs goes to cliCpu (a
+ * loaded machine stretches the wall time of a process far more than its CPU time).
+ */
 function timeCli(args: string[]): number | string {
   const times: number[] = [];
+  const cpu: number[] = [];
+  const timeFile = join(tmpdir(), `railpulse-bench-time-${process.pid}`);
+  const useTime = existsSync('/usr/bin/time');
   for (let k = 0; k < CLI_RUNS; k++) {
     const t0 = performance.now();
-    const run = spawnSync(process.execPath, ['bin/railpulse.js', ...args], { encoding: 'utf8' });
+    const command = useTime ? ['/usr/bin/time', ['-f', '%U %S', '-o', timeFile, process.execPath, 'bin/railpulse.js', ...args]] as const : [process.execPath, ['bin/railpulse.js', ...args]] as const;
+    const run = spawnSync(command[0], command[1], { encoding: 'utf8' });
     const elapsed = (performance.now() - t0) / 1000;
     if (run.status !== 0) return `exit ${run.status}: ${(run.stderr || '').trim().split('\n')[0]}`;
     times.push(elapsed);
+    if (useTime) {
+      const [user, system] = readFileSync(timeFile, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
+      cpu.push(user! + system!);
+    }
   }
+  if (useTime) rmSync(timeFile, { force: true });
+  cliCpu.push(cpu.length ? median(cpu) : NaN);
   return median(times);
 }
 
@@ -72,6 +93,7 @@ console.log(`railpulse shot benchmark — node ${process.version}, ${cpus().leng
 console.log(`load average at start: ${loadavg().map((l) => l.toFixed(2)).join(' ')} (a busy machine inflates every figure)`);
 console.log('');
 
+let targetShot: Timing | null = null;
 const header = [
   pad('scenario', 24),
   pad('off ms', 9),
@@ -92,6 +114,7 @@ for (const file of demos) {
   const off = timeShots(scenario, false, 50, 300, 2);
   const on = timeShots(scenario, true, 5, 30, 2);
   const stats = off.shot.stats;
+  if (file === `${TARGET_SHOT_SCENARIO}.json`) targetShot = off;
   console.log(
     [
       pad(file.replace(/\.json$/, ''), 24),
@@ -108,22 +131,62 @@ for (const file of demos) {
   );
 }
 
+if (targetShot) {
+  const t = targetShot as Timing;
+  console.log(`target: ${TARGET_SHOT_SCENARIO}, waveforms off, ≤ ${TARGET_SHOT_MS} ms per shot in-process on one core; measured ${ms(t.wall)} ms (cpu ${ms(t.cpu)} ms): ${t.wall <= TARGET_SHOT_MS ? 'met' : 'missed'}`);
+}
+
+// Where the time of a shot goes: the same shots with the opt-in profile (runShot's `profile` option). The clock
+// reads inflate the total somewhat, so the phases are shown as shares of the profiled time.
+console.log('');
+console.log('where a shot goes (waveforms off; profiled shots, shares of the profiled time; "dense" = dense-output evaluations per shot)');
+const phaseHeader = [pad('scenario', 24), pad('prof ms', 8), ...PROFILE_PHASES.map((p) => pad(p, p.length < 8 ? 8 : p.length + 1)), pad('dense', 7), pad('rhs/step', 9)].join(' ');
+console.log(phaseHeader);
+console.log('-'.repeat(phaseHeader.length));
+for (const file of demos) {
+  const { scenario } = loadScenarioFile(join(SCENARIO_DIR, file));
+  for (let k = 0; k < 30; k++) runShot(scenario, { waveforms: false, profile: createProfile() });
+  const profile = createProfile();
+  let shot = runShot(scenario, { waveforms: false, profile });
+  const start = performance.now();
+  while (profile.shots < 200 || performance.now() - start < 1000) shot = runShot(scenario, { waveforms: false, profile });
+  const total = PROFILE_PHASES.reduce((sum, p) => sum + profile.ms[p], 0);
+  console.log(
+    [
+      pad(file.replace(/\.json$/, ''), 24),
+      pad(ms(total / profile.shots), 8),
+      ...PROFILE_PHASES.map((p) => pad(`${((100 * profile.ms[p]) / total).toFixed(1)} %`, p.length < 8 ? 8 : p.length + 1)),
+      pad((profile.denseEvaluations / profile.shots).toFixed(0), 7),
+      pad((shot.stats.rhsEvaluations / Math.max(1, shot.stats.steps)).toFixed(1), 9),
+    ].join(' '),
+  );
+}
+
 console.log('');
 console.log(`whole process, median of ${CLI_RUNS}: node bin/railpulse.js run <demo> --json (bundled CLI, dist/railpulse.mjs)`);
-const cliHeader = [pad('scenario', 24), pad('--no-report s', 14), pad('with report s', 14)].join(' ');
+const cliHeader = [pad('scenario', 24), pad('--no-report s', 14), pad('(cpu s)', 8), pad('with report s', 14), pad('(cpu s)', 8)].join(' ');
 console.log(cliHeader);
 console.log('-'.repeat(cliHeader.length));
 // `run` writes its HTML record by default; the second column measures that path into a temporary folder so the
 // benchmark leaves nothing in reports/.
+let worstBare = 0;
+let worstBareCpu = 0;
+const timeCliCpu = (): number => cliCpu[cliCpu.length - 1] ?? NaN;
 const reportDir = mkdtempSync(join(tmpdir(), 'railpulse-bench-'));
 try {
   for (const file of demos) {
     const path = join(SCENARIO_DIR, file);
     const bare = timeCli(['run', path, '--json', '--no-report']);
+    const bareCpu = timeCliCpu();
     const withReport = timeCli(['run', path, '--json', '--report', reportDir]);
+    const reportCpu = timeCliCpu();
     const show = (v: number | string) => (typeof v === 'number' ? v.toFixed(3) : v);
-    console.log([pad(file.replace(/\.json$/, ''), 24), pad(show(bare), 14), pad(show(withReport), 14)].join(' '));
+    const cpuText = (v: number) => (Number.isNaN(v) ? '' : v.toFixed(3));
+    console.log([pad(file.replace(/\.json$/, ''), 24), pad(show(bare), 14), pad(cpuText(bareCpu), 8), pad(show(withReport), 14), pad(cpuText(reportCpu), 8)].join(' '));
+    if (typeof bare === 'number') worstBare = Math.max(worstBare, bare);
+    if (!Number.isNaN(bareCpu)) worstBareCpu = Math.max(worstBareCpu, bareCpu);
   }
 } finally {
   rmSync(reportDir, { recursive: true, force: true });
 }
+console.log(`target: --no-report ≤ ${TARGET_PROCESS_S} s for every demo; slowest ${worstBare.toFixed(3)} s wall (${worstBare <= TARGET_PROCESS_S ? 'met' : 'missed'}), ${worstBareCpu.toFixed(3)} s CPU; load average now ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);

@@ -7,7 +7,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { availableParallelism, tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 
 const args = process.argv.slice(2);
@@ -17,6 +17,11 @@ const option = (name: string, fallback: number): number => {
 };
 const points = option('--points', 10_000);
 const rssPoints = option('--rss-points', 100_000);
+/** runs of each configuration; the efficiency is the ratio of the medians */
+const repeats = option('--repeats', 3);
+/** Targets (issue 16), printed beside the figures. */
+const TARGET_EFFICIENCY = 0.85;
+const TARGET_RSS_MIB = 300;
 const work = mkdtempSync(join(tmpdir(), 'railpulse-bench-sweep-'));
 
 // The multi-group demo: four staggered groups of four crowbarred modules (scenarios/staggered-bank.json).
@@ -38,7 +43,7 @@ interface Summary {
   shotsPerSecond: number;
 }
 
-function sweep(n: number, jobs: number, name: string, measureRss = false): { summary: Summary; maxRssKiB?: number } {
+function sweep(n: number, jobs: number, name: string, measureRss = false): { summary: Summary; maxRssKiB?: number; cpuSeconds?: number } {
   const out = join(work, name);
   const command = [...entry, 'sweep', scenarioFile, ...varies(n), '--jobs', String(jobs), '--out', out, '--no-report', '--json'];
   const useTime = measureRss && existsSync('/usr/bin/time');
@@ -50,20 +55,41 @@ function sweep(n: number, jobs: number, name: string, measureRss = false): { sum
   // A failing point costs no solver time: a rate over failures would be meaningless.
   if (summary.failed > 0) throw new Error(`${summary.failed} of ${summary.ran} points failed; see ${join(out, 'points.jsonl')}`);
   const rss = useTime ? /Maximum resident set size \(kbytes\): (\d+)/.exec(result.stderr) : null;
+  const user = useTime ? /User time \(seconds\): ([\d.]+)/.exec(result.stderr) : null;
+  const system = useTime ? /System time \(seconds\): ([\d.]+)/.exec(result.stderr) : null;
   rmSync(out, { recursive: true, force: true });
-  return { summary, maxRssKiB: rss ? Number(rss[1]) : undefined };
+  return { summary, maxRssKiB: rss ? Number(rss[1]) : undefined, cpuSeconds: user && system ? Number(user[1]) + Number(system[1]) : undefined };
 }
 
 const cores = availableParallelism();
-console.log(`sweep bench: built CLI, ${cores} cores, scenarios/staggered-bank.json`);
-const all = sweep(points, cores, 'all').summary;
-console.log(`  ${all.ran} points on ${cores} workers: ${all.shotsPerSecond.toFixed(0)} shots/s (${all.seconds.toFixed(1)} s)`);
-const one = sweep(points, 1, 'one').summary;
-console.log(`  ${one.ran} points on 1 worker:  ${one.shotsPerSecond.toFixed(0)} shots/s (${one.seconds.toFixed(1)} s)`);
-console.log(`  parallel efficiency: ${((100 * all.shotsPerSecond) / (one.shotsPerSecond * cores)).toFixed(0)} % (speed-up ${(all.shotsPerSecond / one.shotsPerSecond).toFixed(2)}× on ${cores})`);
+const load = () => loadavg().map((l) => l.toFixed(2)).join(' ');
+const median = (values: number[]): number => {
+  const sorted = values.slice().sort((x, y) => x - y);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid]! : 0.5 * (sorted[mid - 1]! + sorted[mid]!);
+};
+console.log(`sweep bench: built CLI, ${cores} cores, scenarios/staggered-bank.json; load average at start ${load()} (other work on the machine lowers the efficiency: read it beside the load)`);
+// Alternate the configurations so a change of the machine's load falls on both alike.
+const rates: Record<'all' | 'one', number[]> = { all: [], one: [] };
+const cpu: Record<'all' | 'one', number[]> = { all: [], one: [] };
+for (let k = 0; k < repeats; k++) {
+  for (const [key, jobs] of [['all', cores], ['one', 1]] as const) {
+    const run = sweep(points, jobs, `${key}${k}`, true);
+    rates[key].push(run.summary.shotsPerSecond);
+    if (run.cpuSeconds !== undefined) cpu[key].push((1e3 * run.cpuSeconds) / run.summary.ran);
+  }
+}
+const all = median(rates.all);
+const one = median(rates.one);
+const cpuNote = (key: 'all' | 'one') => (cpu[key].length ? `, process CPU ${median(cpu[key]).toFixed(3)} ms/point` : '');
+console.log(`  ${points} points on ${cores} workers: ${all.toFixed(0)} shots/s (median of ${repeats}: ${rates.all.map((r) => r.toFixed(0)).join(', ')})${cpuNote('all')}`);
+console.log(`  ${points} points on 1 worker:  ${one.toFixed(0)} shots/s (median of ${repeats}: ${rates.one.map((r) => r.toFixed(0)).join(', ')})${cpuNote('one')}`);
+const efficiency = all / (one * cores);
+console.log(`  parallel efficiency: ${(100 * efficiency).toFixed(0)} % (speed-up ${(all / one).toFixed(2)}× on ${cores}); target ≥ ${(100 * TARGET_EFFICIENCY).toFixed(0)} %: ${efficiency >= TARGET_EFFICIENCY ? 'met' : 'missed'}; load average now ${load()}`);
 if (!args.includes('--skip-rss')) {
   const big = sweep(rssPoints, cores, 'big', true);
   const rss = big.maxRssKiB !== undefined ? `${(big.maxRssKiB / 1024).toFixed(0)} MiB` : 'not measured (/usr/bin/time missing)';
-  console.log(`  ${big.summary.ran} points on ${cores} workers: ${big.summary.shotsPerSecond.toFixed(0)} shots/s, peak RSS ${rss}`);
+  const verdict = big.maxRssKiB !== undefined ? `; target < ${TARGET_RSS_MIB} MB: ${big.maxRssKiB * 1024 < TARGET_RSS_MIB * 1e6 ? 'met' : 'missed'}` : '';
+  console.log(`  ${big.summary.ran} points on ${cores} workers: ${big.summary.shotsPerSecond.toFixed(0)} shots/s, peak RSS ${rss}${verdict}`);
 }
 rmSync(work, { recursive: true, force: true });

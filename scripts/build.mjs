@@ -23,4 +23,19 @@ await build({
   legalComments: 'inline',
   logLevel: 'warning',
   external: ['playwright-core'],
+  // the unit library is loaded on first use from its own file beside the bundle (src/units/unitLibrary.ts)
+  define: { RAILPULSE_BUNDLED_UNIT_LIBRARY: JSON.stringify('./unit-library.cjs') },
+});
+// mathjs's `unit` alone, as CommonJS so the synchronous scenario loaders can require it when a value needs it
+await build({
+  entryPoints: ['src/units/unit-library-entry.ts'],
+  outfile: 'dist/unit-library.cjs',
+  bundle: true,
+  platform: 'node',
+  format: 'cjs',
+  target: 'node20',
+  sourcemap: false,
+  minify: false,
+  legalComments: 'inline',
+  logLevel: 'warning',
 });

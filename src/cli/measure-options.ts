@@ -4,7 +4,6 @@
  * is an InputError naming the option, so the user gets one line and exit code 2.
  */
 import { readFileSync } from 'node:fs';
-import { unit as mathUnit } from 'mathjs';
 import { readMeasurementFile, readMeasurementHeader, readPositionPoints, type Measurement, type MeasurementOptions, type PositionPoints } from '../measure/csv.js';
 import type { FitNoise, FreeParameter, ResidualGroup } from '../measure/fit.js';
 import { InputError } from '../core/errors.js';
@@ -13,6 +12,7 @@ import { getScenarioPath, parsePath } from '../scenario/paths.js';
 import { didYouMean } from '../scenario/suggest.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, normaliseUnitText, QuantityError, toSI, type Dimension } from '../units/quantity.js';
+import { mathUnit } from '../units/unitLibrary.js';
 
 export interface MeasureFlags {
   map?: string[];

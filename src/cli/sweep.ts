@@ -69,7 +69,8 @@ export async function sweepCommand(file: string, flags: SweepFlags): Promise<Swe
   try {
     summary = await runSweep(plan, {
       jobs,
-      validate: (scenario) => validateScenario(scenario),
+      // each point is checked in the worker that runs it: the main thread only hands out batches and writes rows
+      validatePoints: true,
       progress: (total) => (progress = makeProgress(process.stderr, total)),
       signal: controller.signal,
     });

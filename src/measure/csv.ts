@@ -13,9 +13,9 @@
  * as volts at 2 kA/V is `units: { CH1: 'kA' }, scale: { CH1: 2 }`; a trigger delay of 2 µs on a
  * `t [us]` column is `offset: { t: 2 }`.
  */
-import { unit as mathUnit } from 'mathjs';
 import { InputError } from '../core/errors.js';
 import { normaliseUnitText, parseWithUnit } from '../units/quantity.js';
+import { mathUnit } from '../units/unitLibrary.js';
 import { fileLines, textLines, type LineReader } from './lines.js';
 import { openTable, readTable, type TableColumn, type TableLayout, type TableStream } from './table.js';
 

@@ -25,10 +25,13 @@ import { gaussLegendre } from '../core/quadrature.js';
 import { absoluteTolerances, fastestDecay, timeScale } from './scaling.js';
 import type { EventKind, Losses, Outcome, Shot, ShotEvent } from './types.js';
 import { InputError } from '../core/errors.js';
+import { phaseSwitch, type ShotProfile } from './profile.js';
 
 export interface RunOptions {
   /** keep waveforms (default true); studies turn them off */
   waveforms?: boolean;
+  /** accumulate where the time goes (benchmark only; see profile.ts) */
+  profile?: ShotProfile;
 }
 
 /** Points per accepted step at which event functions and peak derivatives are sampled before bracketing. */
@@ -73,6 +76,7 @@ interface Located {
 }
 
 export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
+  const enter = phaseSwitch(options.profile);
   const plant = makePlant(scenario);
   const ix = plant.index;
   const relTol = scenario.solver.relTol;
@@ -116,9 +120,11 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
 
   /** Count and record the state at an event instant; called on both sides of every event. */
   const instant = () => {
+    const was = enter('recording');
     const o = observe(plant, y, mode);
     tracker.observePoint(t, y, o);
     recorder?.record(t, y, q, mode, o);
+    enter(was);
   };
 
   instant();
@@ -133,6 +139,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   let locatedCount = 0;
   let overflowRetries = 0;
   while (outcome === null) {
+    enter('restart');
     if (locatedCount > MAX_EVENTS) {
       throw new IntegrationError(`more than ${MAX_EVENTS} events by t = ${t} s; the shot does not settle`);
     }
@@ -169,8 +176,16 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       return spec.direction === 'down' ? Math.min(value, 0) : Math.max(value, Number.MIN_VALUE);
     });
 
-    const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], dense?: Dense): boolean => {
-      if (!dense) return true;
+    const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], odexDense?: Dense): boolean => {
+      if (!odexDense) return true;
+      enter('events');
+      const profile = options.profile;
+      const dense: Dense = profile
+        ? (j, u) => {
+            profile.denseEvaluations++;
+            return odexDense(j, u);
+          }
+        : odexDense;
       steps++;
       // a state that is no longer finite cannot be integrated further: stop here and report it (below)
       if (!allFinite(yEnd)) {
@@ -187,6 +202,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       };
       /** ∫ of the quadrature integrands over [a, b] on the dense output, added to `into` */
       const integrate = (a: number, b: number, into: Float64Array) => {
+        const was = enter('quadrature');
         const rule = STEP_RULE;
         sum.fill(0);
         for (let p = 0; p < rule.nodes.length; p++) {
@@ -197,6 +213,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
           for (let k = 0; k < QUADRATURE.size; k++) sum[k]! += w * integrand[k]!;
         }
         for (let k = 0; k < QUADRATURE.size; k++) into[k]! += (b - a) * sum[k]!;
+        enter(was);
       };
       // sample the step, bracket the first sign change of any event function
       const times: number[] = [tOld];
@@ -242,13 +259,16 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
         times.push(end);
         states.push(found.state);
       }
+      enter('peaks');
       trackPeaks(times, states, stateAt);
       // the step odex took, cut or not, is the first guess after a restart (see lastStep); a phase in which
       // nothing moves (waiting for a trigger) takes steps that say nothing about the dynamics to come
       if (!idle) lastStep = tau - tauOld;
       const qEnd = found ? found.quadratures : q.slice();
       if (!found) integrate(tOld, tNew, qEnd);
+      enter('recording');
       if (recorder) recordSamples(tOld, end, tNew - tOld, !found, stateAt, integrate);
+      enter(found ? 'restart' : 'integration');
       if (found) return false;
       previous = states[states.length - 1]!;
       q = qEnd;
@@ -317,7 +337,9 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     solver.maxStepSize = maxStepSize;
     solver.maxSteps = Math.max(1, stepBudget - steps);
     solver.initialStepSize = lastStep;
+    enter('integration');
     const result = solver.solve(rhs, t / scale, active.map((c) => y[c]!), endTime / scale, observer);
+    enter('restart');
     evaluations += result.nEval;
     restarts++;
     if (blownUp) {
@@ -366,15 +388,18 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     instant();
     if (isStalled(plant, y, mode)) outcome = settled;
   }
+  enter('finish');
   if (outcome === 'stalled') events.push({ t, kind: 'stall' });
   if (outcome === 'discharged') events.push({ t, kind: 'discharged' });
   if (outcome === 'timeout') events.push({ t, kind: 'timeout' });
-  return finish(plant, scenario, y, q, t, outcome, tracker.peaks, recorder?.waveforms ?? null, events, {
+  const shot = finish(plant, scenario, y, q, t, outcome, tracker.peaks, recorder?.waveforms ?? null, events, {
     steps,
     rhsEvaluations: evaluations,
     restarts,
     relTol,
   });
+  enter('setup');
+  return shot;
 }
 
 const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;

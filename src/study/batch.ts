@@ -10,6 +10,8 @@ import { csvLine, jsonLine, rowObject, studyLayout, type RowLayout } from './row
 import { HEADLINE_KEYS, type Headline, type RunShot } from './headline.js';
 import { propagateModel } from './propagate.js';
 import { uncertaintyModel } from './uncertainInputs.js';
+import { validateScenario } from '../scenario/validate.js';
+import { InputError } from '../core/errors.js';
 
 export type { RunShot } from './headline.js';
 
@@ -19,6 +21,11 @@ export interface BatchContext {
   paths: string[];
   /** propagate the scenario's tolerances and calibration at every point (linear, 1 + 2k shots a point) */
   uncertainty?: boolean;
+  /**
+   * check each point's scenario (validateScenario) where the point runs, so the main thread does no per-point work;
+   * a point that fails is recorded with its reason
+   */
+  validate?: boolean;
 }
 
 export interface BatchRequest {
@@ -51,6 +58,17 @@ function pointUncertainty(scenario: Scenario, shot: Shot, runShot: RunShot): Hea
   return propagateModel(scenario, model, runShot, { nominal: shot, probeSpread: false }).standardUncertainty;
 }
 
+/** Why a point's scenario is not valid, or null; anything but a user-facing problem is a bug and propagates. */
+function validationProblem(scenario: Scenario): string | null {
+  try {
+    validateScenario(scenario);
+    return null;
+  } catch (error) {
+    if (error instanceof InputError) return error.message;
+    throw error;
+  }
+}
+
 export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchRunner {
   const layout = studyLayout(context.scenario, context.paths, context.uncertainty ?? false);
   const steps: PathStep[][] = context.paths.map((path) => parsePath(path)!);
@@ -65,12 +83,13 @@ export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchR
         const values = request.values.subarray(k * dimensions, (k + 1) * dimensions);
         const invalid = request.invalid[k] ?? null;
         let row;
-        if (invalid !== null) {
-          row = rowObject(layout, index, values, null, invalid);
+        // A fresh copy a point: the solver must never see another point's values.
+        const scenario = invalid === null ? structuredClone(context.scenario) : null;
+        if (scenario) steps.forEach((step, d) => setPath(scenario, step, values[d]!));
+        const problem = invalid ?? (scenario && context.validate ? validationProblem(scenario) : null);
+        if (problem !== null || !scenario) {
+          row = rowObject(layout, index, values, null, problem ?? 'invalid point');
         } else {
-          // A fresh copy a point: the solver must never see another point's values.
-          const scenario = structuredClone(context.scenario);
-          steps.forEach((step, d) => setPath(scenario, step, values[d]!));
           try {
             const shot = runShot(scenario, { waveforms: false });
             // the same assessment every command reads: the point's verdicts are the record's verdicts

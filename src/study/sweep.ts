@@ -47,8 +47,10 @@ export interface SweepOptions {
   jobs?: number;
   /** points a message (default: up to 64, fewer for small studies so every worker gets work) */
   batchSize?: number;
-  /** SI range checks of a changed scenario (validateScenario); a point that fails is recorded with its reason */
+  /** SI range checks of a changed scenario, in the main thread; a point that fails is recorded with its reason */
   validate?: (scenario: Scenario) => void;
+  /** validateScenario on every point where it runs (in the workers, not the main thread); the same rows as `validate` */
+  validatePoints?: boolean;
   /** how batches are run (default: a pool of dist/sweep-worker.mjs threads) */
   makeRunner?: (context: BatchContext, jobs: number) => PointRunner;
   progress?: (pointsToRun: number) => ProgressSink;
@@ -103,7 +105,7 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
   const requestedJobs = options.jobs ?? availableParallelism();
   const batchSize = options.batchSize ?? Math.max(1, Math.min(64, Math.ceil(remaining / (requestedJobs * 4))));
   const jobs = Math.max(1, Math.min(requestedJobs, Math.ceil(remaining / batchSize)));
-  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths, uncertainty };
+  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths, uncertainty, validate: options.validatePoints ?? false };
   const runner = (options.makeRunner ?? ((ctx, n) => makeWorkerPool(defaultWorkerUrl(), ctx, n)))(context, jobs);
   const progress = options.progress?.(remaining) ?? silentProgress;
   const writer = openPointsWriter(plan.outDir);

@@ -1,7 +1,8 @@
 /**
  * Quantity strings ⇄ SI numbers. Units live only at the edges: a scenario value is parsed once here.
  */
-import { unit as mathUnit, type Unit } from 'mathjs';
+import { mathUnit, type Unit } from './unitLibrary.js';
+import { fastSI } from './fastQuantity.js';
 
 /** A physical dimension a scenario value must have: the SI unit it converts to and a name for messages. */
 export interface Dimension {
@@ -84,6 +85,12 @@ export function toSI(value: unknown, dimension: Dimension): number {
   if (NUMBER_ONLY.test(text)) {
     if (dimension.si === '') return Number(text);
     throw new QuantityError(`expected ${dimension.noun} with a unit, got ${describe(value)} (give a unit, or a plain number in SI)`);
+  }
+  // the common case ("250 uF") without the unit library; anything the fast reader declines goes to mathjs
+  const fast = dimension.si === '' ? null : fastSI(text, dimension.si);
+  if (fast !== null) {
+    if (!Number.isFinite(fast)) throw new QuantityError(`expected ${dimension.noun}, got ${describe(value)}`);
+    return fast;
   }
   let parsed: Unit;
   try {

@@ -153,10 +153,24 @@ describe('sweep', () => {
     expect(String(rows[1]!.error)).toMatch(/staticCoefficient|static/i);
   });
 
-  it('the worker bundle carries the solver and the checks but not the unit parser (mathjs costs ~1 s a thread to import)', () => {
+  it('checking the points in the workers (validatePoints) writes the same rows as checking them in the main thread', async () => {
+    const vary = ['friction.coefficient=0.1,0.15,0.3', 'friction.staticCoefficient=0.2,0.25', 'bank[0].voltage=2kV:4kV:3'];
+    const main = plan({ vary });
+    const workers = plan({ vary });
+    await runSweep(main, { jobs: 2, batchSize: 4, validate });
+    const summary = await runSweep(workers, { jobs: 2, batchSize: 4, validatePoints: true });
+    expect(summary.failed).toBeGreaterThan(0);
+    expect(summary.failed).toBeLessThan(summary.points);
+    expect(read(workers.outDir, 'points.jsonl')).toBe(read(main.outDir, 'points.jsonl'));
+    expect(read(workers.outDir, 'points.csv')).toBe(read(main.outDir, 'points.csv'));
+  });
+
+  it('the worker bundle carries the solver, the checks and the range checks but not mathjs (it costs ~1 s a thread to import)', () => {
     const bundle = readFileSync(new URL('../../dist/sweep-worker.mjs', import.meta.url), 'utf8');
     expect(bundle).toContain('// src/solve/shot.ts');
     expect(bundle).toContain('// src/checks/assess.ts');
-    expect(bundle).not.toMatch(/\/\/ (src\/units\/quantity|node_modules\/mathjs)/);
+    expect(bundle).toContain('// src/scenario/validate.ts');
+    // the quantity reader may come along (validation's field table), but mathjs only ever loads on demand
+    expect(bundle).not.toMatch(/\/\/ (node_modules\/mathjs|src\/units\/unit-library-entry)/);
   });
 });
