@@ -1,0 +1,371 @@
+/// <reference lib="dom" />
+/// <reference lib="dom.iterable" />
+/**
+ * The design page in the browser: controls for every numeric quantity of the scenario; each change reloads the
+ * scenario through the CLI's loader, simulates, assesses and redraws, with the previous shot as a ghost on every
+ * plot. A bad entry shows the CLI's message beside its control and the last good shot stays drawn.
+ */
+import { InputError } from '../core/errors.js';
+import type { AssessedShot } from '../pipeline/shoot.js';
+import { inFile } from '../pipeline/shoot.js';
+import { escapeHtml } from '../report/escape.js';
+import { shotFigures, type PlotFigure } from '../report/plots.js';
+import { safetyBanner } from '../report/safety.js';
+import { bankOnPage, budgetTable, figuresSection } from '../report/shot-record.js';
+import { statusBanner } from '../report/status.js';
+import { checksSection } from '../report/tables.js';
+import { parseJson } from '../scenario/load.js';
+import { designRecord, designResults, designShot, loadDesign, scenarioText, type PageEnvironment } from './engine.js';
+import { controlGroups, enteredValue, roundedNumber, sliderSpan, splitWritten, withValue, type NumericControl } from './fields.js';
+
+interface PlotlyApi {
+  react(element: HTMLElement, data: unknown[], layout: Record<string, unknown>, config: Record<string, unknown>): Promise<unknown>;
+}
+declare const Plotly: PlotlyApi;
+
+interface DesignData {
+  file: string;
+  source: string;
+}
+
+const data = JSON.parse(document.getElementById('railpulse-design')!.textContent!) as DesignData;
+const plotConfig = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ['select2d', 'lasso2d'] };
+const HISTORY_LIMIT = 200;
+
+/** The scenario as last simulated without error, and its shot. */
+let committed: { raw: Record<string, unknown>; shot: AssessedShot };
+/** The shot before the last change: drawn as a ghost. */
+let ghost: AssessedShot | null = null;
+const history: Record<string, unknown>[] = [];
+let shotsDrawn = 0;
+
+function environment(): PageEnvironment {
+  const chromium = /(?:Chrome|Chromium)\/([\d.]+)/.exec(navigator.userAgent);
+  const date = new Date(Math.floor(Date.now() / 1000) * 1000).toISOString();
+  return { runtime: `browser (${chromium ? `Chromium ${chromium[1]}` : navigator.userAgent}): railpulse design page`, date };
+}
+
+/** Load and shoot a scenario object; throws the loader's InputError (with the file name, as the CLI says it). */
+function simulate(raw: Record<string, unknown>): AssessedShot {
+  return inFile(data.file, () => designShot(loadDesign(raw, data.file), environment()));
+}
+
+// ---------- drawing ----------
+
+const GHOST_LINE = { color: 'rgba(120,120,120,0.55)', width: 1.5, dash: 'dot' };
+
+/** The previous shot's traces under the current ones, greyed and dotted; bars as hollow outlines. */
+function withGhost(figure: PlotFigure, previous: PlotFigure | undefined): unknown[] {
+  if (!previous) return figure.data;
+  const ghosts = previous.data
+    .filter((trace) => !(trace as { fill?: string }).fill || trace.type === 'bar')
+    .map((trace) => {
+      const base = { ...trace, name: `previous: ${trace.name}`, showlegend: false, hoverinfo: 'skip' };
+      if (trace.type === 'bar') return { ...base, marker: { color: 'rgba(0,0,0,0)', line: { color: 'rgba(90,90,90,0.8)', width: 1.5 } }, text: undefined };
+      return { ...base, line: GHOST_LINE, marker: undefined, fill: undefined };
+    });
+  return [...ghosts, ...figure.data];
+}
+
+function figuresOf(assessed: AssessedShot): PlotFigure[] {
+  return shotFigures(assessed.scenario, assessed.shot.results, assessed.shot.waveforms, { target: 1500, max: 2000 }, assessed.shot.events);
+}
+
+function ensurePlotBlocks(figures: PlotFigure[]): void {
+  const holder = document.getElementById('design-plots')!;
+  for (const figure of figures) {
+    if (document.getElementById(figure.id)) continue;
+    const block = document.createElement('div');
+    block.className = 'plot-block';
+    block.innerHTML = `<h3>${escapeHtml(figure.title)}</h3><p class="caption">${escapeHtml(figure.caption)} Dotted grey: the shot before the last change.</p><div class="plot" id="${figure.id}"></div>${figure.id === 'plot-budget' ? '<div id="design-budget"></div>' : ''}`;
+    holder.appendChild(block);
+  }
+}
+
+async function draw(current: AssessedShot, previous: AssessedShot | null): Promise<void> {
+  const { results } = current.shot;
+  document.getElementById('design-safety')!.innerHTML = safetyBanner([bankOnPage(current.scenario)]);
+  document.getElementById('design-status')!.innerHTML = statusBanner(current.assessment.checks, current.assessment.warnings.map((w) => w.message));
+  document.getElementById('design-figures')!.innerHTML = figuresSection(results);
+  document.getElementById('design-checks')!.innerHTML = checksSection(current.assessment.checks);
+  document.getElementById('design-results')!.textContent = JSON.stringify(designResults(current));
+  const figures = figuresOf(current);
+  const before = previous ? new Map(figuresOf(previous).map((f) => [f.id, f])) : new Map<string, PlotFigure>();
+  ensurePlotBlocks(figures);
+  document.getElementById('design-budget')!.innerHTML = budgetTable(results);
+  await Promise.all(figures.map((f) => Plotly.react(document.getElementById(f.id)!, withGhost(f, before.get(f.id)), f.layout, plotConfig)));
+  shotsDrawn += 1;
+  document.body.setAttribute('data-shots', String(shotsDrawn));
+}
+
+// ---------- controls ----------
+
+function setState(text: string, error = false): void {
+  const state = document.getElementById('design-state')!;
+  state.textContent = text;
+  state.className = error ? 'state error' : 'state';
+  document.body.setAttribute('data-state', error ? 'error' : 'drawn');
+}
+
+function clearErrors(): void {
+  for (const message of document.querySelectorAll<HTMLElement>('.control .message')) message.textContent = '';
+  for (const control of document.querySelectorAll<HTMLElement>('.control.bad')) control.classList.remove('bad');
+}
+
+/** Show an InputError beside the control it names (or under the header when no control does). */
+function showError(error: unknown): void {
+  const line = error instanceof InputError ? error.line() : `internal error: ${error instanceof Error ? error.message : String(error)}`;
+  const where = error instanceof InputError ? error.where : '';
+  const control = [...document.querySelectorAll<HTMLElement>('.control')].find((element) => element.dataset.path === where);
+  if (control) {
+    control.classList.add('bad');
+    control.querySelector('.message')!.textContent = line;
+  }
+  setState(`${control ? 'Not simulated (see the entry marked in red)' : line}; the last good shot stays drawn.`, true);
+}
+
+async function show(next: AssessedShot, previous: AssessedShot | null): Promise<void> {
+  const started = performance.now();
+  await draw(next, previous);
+  setState(`Shot ${shotsDrawn} drawn (${(performance.now() - started).toFixed(0)} ms to draw).`);
+}
+
+/** Simulate a new scenario object and make it the current one; a bad one leaves everything as it was. */
+async function commit(raw: Record<string, unknown>, rebuild = false): Promise<boolean> {
+  let next: AssessedShot;
+  try {
+    next = simulate(raw);
+  } catch (error) {
+    showError(error);
+    return false;
+  }
+  clearErrors();
+  history.push(committed.raw);
+  if (history.length > HISTORY_LIMIT) history.shift();
+  ghost = committed.shot;
+  committed = { raw, shot: next };
+  if (rebuild) buildControls();
+  updateUndo();
+  await show(next, ghost);
+  return true;
+}
+
+/** A slider being dragged: simulate and draw without touching the history (the release commits). */
+async function preview(raw: Record<string, unknown>): Promise<void> {
+  try {
+    const next = simulate(raw);
+    clearErrors();
+    await show(next, committed.shot);
+  } catch (error) {
+    showError(error);
+  }
+}
+
+async function undo(): Promise<void> {
+  const raw = history.pop();
+  if (!raw) return;
+  try {
+    const next = simulate(raw);
+    ghost = committed.shot;
+    committed = { raw, shot: next };
+    clearErrors();
+    buildControls();
+    updateUndo();
+    await show(next, ghost);
+  } catch (error) {
+    showError(error);
+  }
+}
+
+function updateUndo(): void {
+  (document.getElementById('design-undo') as HTMLButtonElement).disabled = history.length === 0;
+}
+
+function labelOf(control: NumericControl): string {
+  const unitText = control.field.kind === 'quantity' && control.field.dimension.si ? ` [${control.field.dimension.si}]` : '';
+  return `${control.key}${unitText}`;
+}
+
+function controlElement(control: NumericControl, siblings: number[]): HTMLElement {
+  const element = document.createElement('div');
+  element.className = 'control';
+  element.dataset.path = control.path;
+  const defaultText = control.field.default === undefined ? '' : ` (default ${control.field.default} SI)`;
+  element.innerHTML = `<label><span class="name" title="${escapeHtml(control.field.description)}">${escapeHtml(labelOf(control))}</span>
+<input type="text" class="entry" spellcheck="false" aria-label="${escapeHtml(control.path)}"></label>
+<input type="range" class="slider" min="0" max="1000" step="1" aria-label="${escapeHtml(control.path)} slider"><div class="message" role="alert"></div>`;
+  const entry = element.querySelector<HTMLInputElement>('.entry')!;
+  const slider = element.querySelector<HTMLInputElement>('.slider')!;
+  entry.value = control.written === undefined ? '' : String(control.written);
+  entry.placeholder = control.written === undefined ? `not given${defaultText}` : '';
+  let span = { min: 0, max: 1, log: false };
+  let unit = '';
+  const place = (): void => {
+    const split = splitWritten(enteredValue(entry.value));
+    slider.disabled = split === null;
+    if (!split) return;
+    unit = split.unit;
+    span = sliderSpan(split.number, siblings);
+    if (control.field.kind === 'integer') span = { min: Math.max(1, Math.floor(span.min)), max: Math.max(2, Math.ceil(span.max)), log: false };
+    slider.value = String(Math.round(1000 * fraction(split.number)));
+  };
+  const fraction = (value: number): number =>
+    span.log ? Math.log(value / span.min) / Math.log(span.max / span.min) : (value - span.min) / (span.max - span.min);
+  const sliderText = (): string => {
+    const at = Number(slider.value) / 1000;
+    const value = span.log ? span.min * (span.max / span.min) ** at : span.min + at * (span.max - span.min);
+    const number = control.field.kind === 'integer' ? Math.round(value) : roundedNumber(value);
+    return unit ? `${number} ${unit}` : String(number);
+  };
+  place();
+  entry.addEventListener('change', () => {
+    void commit(withValue(committed.raw, control.path, enteredValue(entry.value))).then((ok) => ok && place());
+  });
+  let dragStart: Record<string, unknown> | null = null;
+  slider.addEventListener('input', () => {
+    dragStart ??= committed.raw;
+    entry.value = sliderText();
+    schedule(() => preview(withValue(dragStart!, control.path, enteredValue(entry.value))));
+  });
+  slider.addEventListener('change', () => {
+    const start = dragStart ?? committed.raw;
+    dragStart = null;
+    entry.value = sliderText();
+    schedule(() => commit(withValue(start, control.path, enteredValue(entry.value))).then((ok) => ok && place()));
+  });
+  return element;
+}
+
+/** One simulation at a time; while one runs, only the latest request waits. */
+let running: Promise<unknown> | null = null;
+let waiting: (() => Promise<unknown>) | null = null;
+function schedule(work: () => Promise<unknown>): void {
+  if (running) {
+    waiting = work;
+    return;
+  }
+  running = work().finally(() => {
+    running = null;
+    const next = waiting;
+    waiting = null;
+    if (next) schedule(next);
+  });
+}
+
+function bankOf(raw: Record<string, unknown>): Record<string, unknown>[] {
+  return raw.bank as Record<string, unknown>[];
+}
+
+function groupButtons(index: number): HTMLElement {
+  const bar = document.createElement('div');
+  bar.className = 'group-buttons';
+  const button = (text: string, action: () => Record<string, unknown>, disabled = false): void => {
+    const element = document.createElement('button');
+    element.type = 'button';
+    element.textContent = text;
+    element.disabled = disabled;
+    element.dataset.action = text.toLowerCase();
+    element.addEventListener('click', () => schedule(() => commit(action(), true)));
+    bar.appendChild(element);
+  };
+  button('Duplicate', () => {
+    const raw = structuredClone(committed.raw);
+    const copy = structuredClone(bankOf(raw)[index]!);
+    copy.label = `${String(copy.label ?? `group ${index + 1}`)} copy`;
+    bankOf(raw).splice(index + 1, 0, copy);
+    return raw;
+  });
+  button('Remove', () => {
+    const raw = structuredClone(committed.raw);
+    bankOf(raw).splice(index, 1);
+    return raw;
+  }, bankOf(committed.raw).length <= 1);
+  return bar;
+}
+
+function buildControls(): void {
+  const holder = document.getElementById('design-controls')!;
+  holder.replaceChildren();
+  const groups = controlGroups(committed.raw);
+  const siblings = (control: NumericControl): number[] => {
+    const key = control.path.replace(/^bank\[\d+\]/, '');
+    if (key === control.path) return [];
+    return bankOf(committed.raw).flatMap((group) => {
+      const split = splitWritten(key.split('.').filter(Boolean).reduce<unknown>((node, part) => (node as Record<string, unknown> | undefined)?.[part], group));
+      return split ? [split.number] : [];
+    });
+  };
+  for (const group of groups) {
+    const set = document.createElement('fieldset');
+    set.className = 'control-group';
+    set.dataset.section = group.path;
+    const bankIndex = /^bank\[(\d+)\]$/.exec(group.path);
+    const label = bankIndex ? `${group.path} \u00B7 ${String(bankOf(committed.raw)[Number(bankIndex[1])]!.label ?? `group ${Number(bankIndex[1]) + 1}`)}` : group.path;
+    set.innerHTML = `<legend>${escapeHtml(label)}</legend>`;
+    if (bankIndex) set.appendChild(groupButtons(Number(bankIndex[1])));
+    for (const control of group.controls) set.appendChild(controlElement(control, siblings(control)));
+    holder.appendChild(set);
+  }
+  const add = document.createElement('button');
+  add.type = 'button';
+  add.id = 'design-add-group';
+  add.textContent = 'Add a group';
+  add.addEventListener('click', () =>
+    schedule(() => {
+      const raw = structuredClone(committed.raw);
+      const bank = bankOf(raw);
+      const copy = structuredClone(bank[bank.length - 1]!);
+      copy.label = `group ${bank.length + 1}`;
+      bank.push(copy);
+      return commit(raw, true);
+    }),
+  );
+  holder.appendChild(add);
+}
+
+// ---------- saving ----------
+
+function download(name: string, text: string, type: string): void {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = name;
+  document.body.appendChild(link);
+  link.click();
+  link.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 60_000);
+}
+
+function baseName(): string {
+  return data.file.replace(/^.*[\\/]/, '').replace(/\.json$/i, '');
+}
+
+async function saveRecord(): Promise<void> {
+  try {
+    setState('Building the record (with the propagation of the tolerances, as run does)…');
+    const html = await designRecord(committed.shot, document.getElementById('railpulse-plotly')!.textContent!);
+    download(`${baseName()}-design-record.html`, html, 'text/html');
+    setState(`Record of shot ${shotsDrawn} saved.`);
+  } catch (error) {
+    showError(error);
+  }
+}
+
+// ---------- start ----------
+
+async function start(): Promise<void> {
+  const raw = parseJson(data.source, data.file);
+  const first = simulate(raw);
+  committed = { raw, shot: first };
+  buildControls();
+  updateUndo();
+  document.getElementById('design-undo')!.addEventListener('click', () => schedule(undo));
+  document.getElementById('design-save-scenario')!.addEventListener('click', () => download(`${baseName()}-design.json`, scenarioText(committed.raw), 'application/json'));
+  document.getElementById('design-save-record')!.addEventListener('click', () => schedule(saveRecord));
+  await show(first, null);
+}
+
+start().catch((error: unknown) => {
+  showError(error);
+  document.body.setAttribute('data-state', 'failed');
+});
