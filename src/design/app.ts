@@ -16,12 +16,8 @@ import { statusBanner } from '../report/status.js';
 import { checksSection } from '../report/tables.js';
 import { parseJson } from '../scenario/load.js';
 import { designRecord, designResults, designShot, loadDesign, scenarioText, type PageEnvironment } from './engine.js';
+import { drawFigure } from './canvas-plot.js';
 import { controlGroups, enteredValue, roundedNumber, sliderSpan, splitWritten, withValue, type NumericControl } from './fields.js';
-
-interface PlotlyApi {
-  react(element: HTMLElement, data: unknown[], layout: Record<string, unknown>, config: Record<string, unknown>): Promise<unknown>;
-}
-declare const Plotly: PlotlyApi;
 
 interface DesignData {
   file: string;
@@ -29,7 +25,6 @@ interface DesignData {
 }
 
 const data = JSON.parse(document.getElementById('railpulse-design')!.textContent!) as DesignData;
-const plotConfig = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ['select2d', 'lasso2d'] };
 const HISTORY_LIMIT = 200;
 
 /** The scenario as last simulated without error, and its shot. */
@@ -47,28 +42,23 @@ function environment(): PageEnvironment {
 
 /** Load and shoot a scenario object; throws the loader's InputError (with the file name, as the CLI says it). */
 function simulate(raw: Record<string, unknown>): AssessedShot {
-  return inFile(data.file, () => designShot(loadDesign(raw, data.file), environment()));
+  const started = performance.now();
+  const shot = inFile(data.file, () => designShot(loadDesign(raw, data.file), environment()));
+  document.body.setAttribute('data-simulate-ms', (performance.now() - started).toFixed(1));
+  return shot;
 }
 
 // ---------- drawing ----------
 
-const GHOST_LINE = { color: 'rgba(120,120,120,0.55)', width: 1.5, dash: 'dot' };
+const figureCache = new WeakMap<AssessedShot, PlotFigure[]>();
 
-/** The previous shot's traces under the current ones, greyed and dotted; bars as hollow outlines. */
-function withGhost(figure: PlotFigure, previous: PlotFigure | undefined): unknown[] {
-  if (!previous) return figure.data;
-  const ghosts = previous.data
-    .filter((trace) => !(trace as { fill?: string }).fill || trace.type === 'bar')
-    .map((trace) => {
-      const base = { ...trace, name: `previous: ${trace.name}`, showlegend: false, hoverinfo: 'skip' };
-      if (trace.type === 'bar') return { ...base, marker: { color: 'rgba(0,0,0,0)', line: { color: 'rgba(90,90,90,0.8)', width: 1.5 } }, text: undefined };
-      return { ...base, line: GHOST_LINE, marker: undefined, fill: undefined };
-    });
-  return [...ghosts, ...figure.data];
-}
-
+/** The record's figures of a shot (computed once: the shot is drawn again as the next one's ghost). */
 function figuresOf(assessed: AssessedShot): PlotFigure[] {
-  return shotFigures(assessed.scenario, assessed.shot.results, assessed.shot.waveforms, { target: 1500, max: 2000 }, assessed.shot.events);
+  const cached = figureCache.get(assessed);
+  if (cached) return cached;
+  const figures = shotFigures(assessed.scenario, assessed.shot.results, assessed.shot.waveforms, { target: 800, max: 1200 }, assessed.shot.events);
+  figureCache.set(assessed, figures);
+  return figures;
 }
 
 function ensurePlotBlocks(figures: PlotFigure[]): void {
@@ -77,12 +67,12 @@ function ensurePlotBlocks(figures: PlotFigure[]): void {
     if (document.getElementById(figure.id)) continue;
     const block = document.createElement('div');
     block.className = 'plot-block';
-    block.innerHTML = `<h3>${escapeHtml(figure.title)}</h3><p class="caption">${escapeHtml(figure.caption)} Dotted grey: the shot before the last change.</p><div class="plot" id="${figure.id}"></div>${figure.id === 'plot-budget' ? '<div id="design-budget"></div>' : ''}`;
+    block.innerHTML = `<h3>${escapeHtml(figure.title)}</h3><p class="caption">${escapeHtml(figure.caption)} Dotted grey: the shot before the last change. The saved record has these plots with zoom and hover.</p><canvas class="plot-canvas" id="${figure.id}" role="img" aria-label="${escapeHtml(figure.title)}"></canvas>${figure.id === 'plot-budget' ? '<div id="design-budget"></div>' : ''}`;
     holder.appendChild(block);
   }
 }
 
-async function draw(current: AssessedShot, previous: AssessedShot | null): Promise<void> {
+function draw(current: AssessedShot, previous: AssessedShot | null): void {
   const { results } = current.shot;
   document.getElementById('design-safety')!.innerHTML = safetyBanner([bankOnPage(current.scenario)]);
   document.getElementById('design-status')!.innerHTML = statusBanner(current.assessment.checks, current.assessment.warnings.map((w) => w.message));
@@ -93,7 +83,7 @@ async function draw(current: AssessedShot, previous: AssessedShot | null): Promi
   const before = previous ? new Map(figuresOf(previous).map((f) => [f.id, f])) : new Map<string, PlotFigure>();
   ensurePlotBlocks(figures);
   document.getElementById('design-budget')!.innerHTML = budgetTable(results);
-  await Promise.all(figures.map((f) => Plotly.react(document.getElementById(f.id)!, withGhost(f, before.get(f.id)), f.layout, plotConfig)));
+  for (const f of figures) drawFigure(document.getElementById(f.id) as HTMLCanvasElement, f, before.get(f.id) ?? null);
   shotsDrawn += 1;
   document.body.setAttribute('data-shots', String(shotsDrawn));
 }
@@ -126,8 +116,10 @@ function showError(error: unknown): void {
 
 async function show(next: AssessedShot, previous: AssessedShot | null): Promise<void> {
   const started = performance.now();
-  await draw(next, previous);
-  setState(`Shot ${shotsDrawn} drawn (${(performance.now() - started).toFixed(0)} ms to draw).`);
+  draw(next, previous);
+  const drawing = performance.now() - started;
+  document.body.setAttribute('data-draw-ms', drawing.toFixed(1));
+  setState(`Shot ${shotsDrawn} drawn (simulated in ${document.body.getAttribute('data-simulate-ms')} ms, drawn in ${drawing.toFixed(0)} ms).`);
 }
 
 /** Simulate a new scenario object and make it the current one; a bad one leaves everything as it was. */

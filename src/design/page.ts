@@ -1,7 +1,7 @@
 /**
  * The design page as a file: one self-contained HTML page for a scenario, with the simulator bundled for the
- * browser (dist/design-app.js, built by scripts/build.mjs), the plotly bundle of the records and the scenario
- * embedded. Same content-security policy as the records: nothing is fetched, the page works from file://.
+ * browser (dist/design-app.js, built by scripts/build.mjs) and the scenario embedded. The page draws on canvases;
+ * the records' plotly bundle rides along as inert text, copied into the record Save record writes. Same content-security policy as the records: nothing is fetched, the page works from file://.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -50,6 +50,7 @@ main.design{max-width:none;padding:0 18px 40px}
 .control.bad .entry{border:2px solid #b00;background:#fff0f0}
 .control .message{color:#a00;font-size:12px}
 .group-buttons{display:flex;gap:6px;margin:2px 0 4px}
+.plot-canvas{display:block;width:100%;height:340px}
 @media (max-width:900px){.design-columns{grid-template-columns:1fr}#design-controls{position:static;max-height:none}}
 `;
 
@@ -88,7 +89,7 @@ ${jsonScriptElement('railpulse-design', { file: loaded.file, source: loaded.sour
 ${safetyProcedures([bank])}
 <footer>Design page produced by railpulse ${escapeHtml(TOOL_VERSION)}. Model results, not measurements. Plots by plotly.js (MIT licence), inlined.</footer>
 </main>
-<script id="railpulse-plotly">${plotlySource}</script>
+<script type="text/plain" id="railpulse-plotly">${plotlySource}</script>
 <script>${appSource}</script>
 </body>
 </html>
