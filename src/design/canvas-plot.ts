@@ -5,7 +5,7 @@
  * about half a second on a modest machine, too slow to follow a slider; a canvas draws them in a few milliseconds.
  * The saved record has the interactive plotly plots. Supports what plots.ts produces: lines on one or several
  * stacked y axes (domains), stacked areas (stackgroup), horizontal bars, vertical event lines, and a ghost (the
- * previous shot) drawn dotted and grey under the current traces.
+ * previous shot) drawn in light grey under the current traces.
  */
 
 interface Trace {
@@ -28,7 +28,7 @@ export interface CanvasFigure {
 }
 
 const FONT = '12px Helvetica, Arial, sans-serif';
-const GHOST = 'rgba(110,110,110,0.75)';
+const GHOST = 'rgba(120,120,120,0.38)';
 const PREFIXES: Record<string, number> = { p: 1e-12, n: 1e-9, '\u00B5': 1e-6, u: 1e-6, m: 1e-3, '': 1, k: 1e3, M: 1e6, G: 1e9, T: 1e12 };
 
 /** Plot text decodes the three entities plotlyText writes. */
@@ -98,10 +98,17 @@ function stackedY(traces: readonly Trace[]): { trace: Trace; y: number[]; base: 
   });
 }
 
+/** Canvas widths are read once per redraw, before any canvas changes size (each read after a change forces a layout). */
+const widths = new WeakMap<HTMLCanvasElement, number>();
+export function measureCanvases(canvases: readonly HTMLCanvasElement[]): void {
+  for (const canvas of canvases) widths.set(canvas, canvas.clientWidth || 800);
+}
+const widthOf = (canvas: HTMLCanvasElement): number => widths.get(canvas) ?? (canvas.clientWidth || 800);
+
 function prepareCanvas(canvas: HTMLCanvasElement, height: number): CanvasRenderingContext2D {
   const ratio = window.devicePixelRatio || 1;
-  const width = canvas.clientWidth || 800;
-  canvas.style.height = `${height}px`;
+  const width = widthOf(canvas);
+  if (canvas.style.height !== `${height}px`) canvas.style.height = `${height}px`;
   if (canvas.width !== Math.round(width * ratio) || canvas.height !== Math.round(height * ratio)) {
     canvas.width = Math.round(width * ratio);
     canvas.height = Math.round(height * ratio);
@@ -141,7 +148,7 @@ function drawLines(canvas: HTMLCanvasElement, figure: CanvasFigure, ghost: Canva
   const layout = figure.layout;
   const stacked = stackedY(figure.data as readonly Trace[]);
   const legend = stacked.filter((s) => s.trace.name && !s.trace.fill?.startsWith('tonext')).map((s) => ({ name: text(s.trace.name), colour: s.trace.line?.color ?? '#111' }));
-  const width = canvas.clientWidth || 800;
+  const width = widthOf(canvas);
   const measure = canvas.getContext('2d')!;
   measure.font = FONT;
   const plotWidth = width - 80;
@@ -248,9 +255,8 @@ function drawLines(canvas: HTMLCanvasElement, figure: CanvasFigure, ghost: Canva
     context.beginPath();
     context.rect(left, panel.top, right - left, panel.bottom - panel.top);
     context.clip();
-    // ghost first, underneath
-    context.setLineDash([2, 3]);
-    context.lineWidth = 1.4;
+    // ghost first, underneath: solid and light (dashed paths cost several times more to rasterise)
+    context.lineWidth = 2.2;
     context.strokeStyle = GHOST;
     for (const s of ghostStacked) {
       if (panelOf(s.trace) !== panel || s.trace.fill?.startsWith('tonext')) continue;
@@ -308,7 +314,7 @@ function drawBars(canvas: HTMLCanvasElement, figure: CanvasFigure, previous: Can
   const row = 22;
   const height = labels.length * row + 56;
   const context = prepareCanvas(canvas, height);
-  const width = canvas.clientWidth || 800;
+  const width = widthOf(canvas);
   const labelWidth = Math.min(width * 0.5, Math.max(...labels.map((l) => context.measureText(l).width)) + 12);
   const left = labelWidth;
   const right = width - 16;
