@@ -54,7 +54,11 @@ main.design{max-width:none;padding:0 18px 40px}
 @media (max-width:900px){.design-columns{grid-template-columns:1fr}#design-controls{position:static;max-height:none}}
 `;
 
-/** The page's HTML for a loaded scenario (the first shot is drawn by the page itself when it opens). */
+/**
+ * The page's HTML for a loaded scenario (the first shot is drawn by the page itself when it opens). The simulator
+ * comes before the inert plotly text, so the first shot is drawn while the parser still reads that megabyte; the
+ * text is needed only when a record is saved.
+ */
 export function designPageHtml(loaded: LoadedScenario, appSource = designAppSource(), plotlySource = plotlyBundleSource()): string {
   const bank = bankOnPage(loaded.scenario);
   const title = `${loaded.scenario.name} \u2014 railpulse design page`;
@@ -89,8 +93,8 @@ ${jsonScriptElement('railpulse-design', { file: loaded.file, source: loaded.sour
 ${safetyProcedures([bank])}
 <footer>Design page produced by railpulse ${escapeHtml(TOOL_VERSION)}. Model results, not measurements. Plots by plotly.js (MIT licence), inlined.</footer>
 </main>
-<script type="text/plain" id="railpulse-plotly">${plotlySource}</script>
 <script>${appSource}</script>
+<script type="text/plain" id="railpulse-plotly">${plotlySource}</script>
 </body>
 </html>
 `;
