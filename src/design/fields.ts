@@ -35,11 +35,17 @@ function sectionGroups(path: string, fields: Record<string, Field>, written: Rec
   }
 }
 
-/** The control groups of a scenario object: the bank's groups first, then every section the scenario has. */
+/**
+ * Sections shown even when the scenario leaves them out: every key of theirs has a default and giving one changes
+ * nothing else (unlike drag or a crowbar, whose presence is itself a choice).
+ */
+const ALWAYS_SHOWN = new Set(['solver']);
+
+/** The control groups of a scenario object: the bank's groups first, then every section the scenario has (and the solver's). */
 export function controlGroups(raw: Record<string, unknown>): ControlGroup[] {
   const out: ControlGroup[] = [];
   for (const [key, field] of Object.entries(SCENARIO_FIELDS)) {
-    const written = raw[key];
+    const written = raw[key] === undefined && ALWAYS_SHOWN.has(key) ? {} : raw[key];
     if (field.kind === 'list' && Array.isArray(written)) {
       written.forEach((item, n) => {
         if (isObject(item)) sectionGroups(`${key}[${n}]`, field.item.fields, item, out);
@@ -51,12 +57,17 @@ export function controlGroups(raw: Record<string, unknown>): ControlGroup[] {
   return out.filter((group) => group.controls.length > 0);
 }
 
-/** A copy of the object with the value at a control's path replaced (undefined removes the key). */
+/** A copy of the object with the value at a control's path replaced (undefined removes the key; a missing section is made). */
 export function withValue(raw: Record<string, unknown>, path: string, value: unknown): Record<string, unknown> {
   const copy = structuredClone(raw);
   const parts = path.match(/[^.[\]]+/g) ?? [];
   let node: Record<string, unknown> | unknown[] = copy;
-  for (const part of parts.slice(0, -1)) node = (node as Record<string, unknown>)[part] as Record<string, unknown>;
+  for (const part of parts.slice(0, -1)) {
+    const parent = node as Record<string, unknown>;
+    if (parent[part] === undefined && value !== undefined) parent[part] = {};
+    node = parent[part] as Record<string, unknown>;
+    if (node === undefined) return copy;
+  }
   const last = parts[parts.length - 1]!;
   if (value === undefined) delete (node as Record<string, unknown>)[last];
   else (node as Record<string, unknown>)[last] = value;

@@ -7,11 +7,11 @@ import { quantityPaths } from '../../src/scenario/fields.js';
 const demo = JSON.parse(readFileSync('scenarios/staggered-bank.json', 'utf8')) as Record<string, unknown>;
 
 describe('design page controls (from the field table)', () => {
-  it('has one control for every numeric quantity of every section the scenario has, the bank groups first', () => {
+  it('has one control for every numeric quantity of every section the scenario has (and the solver\'s), the bank groups first', () => {
     const groups = controlGroups(demo);
     expect(groups.map((g) => g.path)).toEqual([
       'bank[0]', 'bank[0].crowbar', 'bank[1]', 'bank[1].crowbar', 'bank[2]', 'bank[2].crowbar', 'bank[3]', 'bank[3].crowbar',
-      'feed', 'rails', 'armature', 'friction', 'drag',
+      'feed', 'rails', 'armature', 'friction', 'drag', 'solver',
     ]);
     const paths = groups.flatMap((g) => g.controls.map((c) => c.path));
     // every quantity path of the field table in those sections (bank[n] → each group) has its control
@@ -30,6 +30,9 @@ describe('design page controls (from the field table)', () => {
     const changed = withValue(demo, 'bank[1].trigger', '150 us');
     expect((changed.bank as Record<string, unknown>[])[1]!.trigger).toBe('150 us');
     expect((demo.bank as Record<string, unknown>[])[1]!.trigger).toBe('140 us'); // the original is untouched
+    // the solver section the demo leaves out is made when one of its keys is given
+    expect(withValue(demo, 'solver.endTime', '5 ms').solver).toEqual({ endTime: '5 ms' });
+    expect(withValue(demo, 'solver.endTime', undefined).solver).toBeUndefined();
     const removed = withValue(demo, 'friction.preload', undefined);
     expect(Object.hasOwn(removed.friction as object, 'preload')).toBe(false);
   });
