@@ -16,6 +16,7 @@ const ROOMS = [
   'pipeline', // scenario → Shot → assessment → record, computed once, used by every command
   'measure', // measured records, overlay, calibration
   'study', // sweeps, shards, merge, compare, sizing
+  'design', // the design page: its browser simulator (bundled by scripts/build.mjs) and the page that carries it
   'cli', // commander wiring only
 ];
 

@@ -1,6 +1,8 @@
 // Bundle the CLI (and the study worker) with esbuild: one file each, so a run does not pay for
-// resolving hundreds of mathjs modules at start-up.
+// resolving hundreds of mathjs modules at start-up. Then the design page's simulator for the browser
+// (dist/design-app.js), which `railpulse design` inlines into its page.
 import { build } from 'esbuild';
+import { builtinModules } from 'node:module';
 
 const banner = {
   js: "import { createRequire as __railpulseCreateRequire } from 'node:module'; const require = __railpulseCreateRequire(import.meta.url);",
@@ -39,3 +41,50 @@ await build({
   legalComments: 'inline',
   logLevel: 'warning',
 });
+
+/**
+ * The design page's browser bundle holds no Node built-in. Our modules the page imports may import one for a part
+ * the page never uses (src/scenario/source.ts reads files for loadScenarioFile; the page calls loadScenarioText):
+ * such an import resolves to a side-effect-free placeholder that tree shaking drops with the unused part, and the
+ * build fails if a placeholder is still in the bundle (then the page reaches code that needs Node: split the
+ * browser-safe part out). node:module is the one exception: src/solve/odex.ts loads odex with createRequire (odex
+ * ships no declarations), answered in the browser by scripts/browser/node-module.mjs with the bundled odex.
+ * Packages in node_modules resolve as esbuild does for browsers (their "browser" fields).
+ */
+const builtin = new RegExp(`^(node:)?(${builtinModules.map((name) => name.replace(/[/]/g, '\\/')).join('|')})$`);
+
+const browserBuiltins = {
+  name: 'design-page-builtins',
+  setup(context) {
+    context.onResolve({ filter: builtin }, (args) => {
+      if (args.importer.includes('/node_modules/')) return undefined;
+      const name = args.path.replace(/^node:/, '');
+      if (name === 'module') return { path: new URL('./browser/node-module.mjs', import.meta.url).pathname };
+      const importer = args.importer.replace(/^.*?\/(src|scripts)\//, '$1/');
+      return { path: `${name} (imported by ${importer})`, namespace: 'node-builtin', sideEffects: false };
+    });
+    context.onLoad({ filter: /.*/, namespace: 'node-builtin' }, () => ({ contents: 'module.exports = {};', loader: 'js' }));
+  },
+};
+
+const browser = await build({
+  entryPoints: { 'design-app': 'src/design/app.ts' },
+  outdir: 'dist',
+  bundle: true,
+  platform: 'browser',
+  format: 'iife',
+  target: 'chrome110',
+  minify: true,
+  legalComments: 'inline',
+  logLevel: 'warning',
+  metafile: true,
+  // odex.ts passes import.meta.url to createRequire, which the stand-in ignores
+  define: { 'import.meta.url': '"about:railpulse-design-page"' },
+  plugins: [browserBuiltins],
+});
+const reached = Object.entries(browser.metafile.outputs['dist/design-app.js'].inputs)
+  .filter(([input, use]) => input.startsWith('node-builtin:') && use.bytesInOutput > 0)
+  .map(([input]) => input);
+if (reached.length > 0) {
+  throw new Error(`the design page's bundle needs Node built-ins: ${reached.map((input) => input.slice('node-builtin:'.length)).join('; ')}`);
+}

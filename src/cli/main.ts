@@ -9,6 +9,7 @@ import { registerIndex } from './archive.js';
 import { registerMeasureCommands } from './measure.js';
 import { registerCompareCommand } from './compare.js';
 import { registerSizeCommand } from './size.js';
+import { registerDesignCommand } from './design.js';
 import { registerSweepCommands } from './sweep.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -28,6 +29,7 @@ async function main(argv: string[]): Promise<void> {
   registerSweepCommands(program);
   registerCompareCommand(program);
   registerSizeCommand(program);
+  registerDesignCommand(program);
   // commander's own error output is replaced by handle()'s one line; its help and version still print.
   for (const command of [program, ...program.commands]) {
     const name = command === program ? 'railpulse' : `railpulse ${command.name()}`;

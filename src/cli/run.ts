@@ -15,6 +15,7 @@ import { runShot } from '../solve/shot.js';
 import { parseWholeNumber } from '../study/plan.js';
 import { targetVelocity } from '../study/size.js';
 import { readTarget } from '../study/sizeInput.js';
+import { monteCarlo as runMonteCarlo } from '../study/montecarlo.js';
 import { recordUncertainty, shotUncertainty, uncertaintyJson, uncertaintyLines, type ShotUncertainty } from '../study/shotUncertainty.js';
 
 interface RunFlags {
@@ -73,6 +74,7 @@ async function uncertaintyOf(assessed: AssessedShot, flags: RunFlags): Promise<S
     shots: parseWholeNumber('--monte-carlo', flags.monteCarlo, 2),
     seed: flags.seed === undefined ? 1 : parseWholeNumber('--seed', flags.seed, 0),
     ...(flags.jobs === undefined ? {} : { jobs: parseWholeNumber('--jobs', flags.jobs, 1) }),
+    runMonteCarlo,
   };
   const target = readTarget(assessed.loaded.raw, assessed.loaded.file);
   const uncertainty = await shotUncertainty(assessed, {

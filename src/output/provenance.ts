@@ -1,5 +1,5 @@
 /** Provenance of a shot record: which tool, which Node, which input, when. */
-import { createHash } from 'node:crypto';
+import { sha256Text } from '../core/sha256.js';
 import type { Shot } from '../solve/types.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -36,9 +36,9 @@ export function provenanceOf(shot: Shot, scenarioSha256: string): ShotProvenance
 
 /** Short hash of the scenario and the tool version: the same input under the same tool gets the same tag. */
 export function recordTag(scenarioSha256: string): string {
-  return createHash('sha256').update(`${scenarioSha256}\n${TOOL_VERSION}`).digest('hex').slice(0, 8);
+  return sha256Text(`${scenarioSha256}\n${TOOL_VERSION}`).slice(0, 8);
 }
 
 export function sha256(text: string): string {
-  return createHash('sha256').update(text).digest('hex');
+  return sha256Text(text);
 }

@@ -11,6 +11,7 @@ import type { OverlayInput } from '../report/overlay.js';
 import type { RecordUncertainty } from '../report/uncertainty.js';
 import { InputError, withFileProblems } from '../core/errors.js';
 import type { AssessedShot } from './shoot.js';
+import { shotRecordInput } from './recordInput.js';
 
 export const DEFAULT_REPORT_DIR = 'reports';
 
@@ -55,16 +56,7 @@ export function recordBaseName(assessed: AssessedShot, suffix = ''): string {
 
 /** The HTML record of an assessed shot (with measured traces over it when `overlay` is given, its uncertainty when known). */
 export function shotRecordHtml(assessed: AssessedShot, overlay?: OverlayInput, uncertainty?: RecordUncertainty): string {
-  return buildShotReport({
-    scenarioRaw: assessed.loaded.raw,
-    scenario: assessed.scenario,
-    shot: assessed.shot,
-    provenance: assessed.provenance,
-    warnings: assessed.assessment.warnings.map((w) => w.message),
-    checks: assessed.assessment.checks,
-    ...(overlay ? { overlay } : {}),
-    ...(uncertainty ? { uncertainty } : {}),
-  });
+  return buildShotReport(shotRecordInput(assessed, overlay, uncertainty));
 }
 
 /** Build and file the record of a shot; returns its path. */

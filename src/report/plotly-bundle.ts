@@ -7,8 +7,9 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 
-export const PLOTLY_PACKAGE = 'plotly.js-basic-dist-min';
-export const STUDY_PLOTLY_PACKAGE = 'plotly.js-cartesian-dist-min';
+import { PLOTLY_PACKAGE } from './plotly-names.js';
+
+export { PLOTLY_PACKAGE, STUDY_PLOTLY_PACKAGE } from './plotly-names.js';
 
 const cached = new Map<string, string>();
 

@@ -2,8 +2,8 @@
  * Scenario files → Scenario (SI numbers, defaults filled in). Every problem a user can fix becomes an
  * InputError naming the JSON path, what was expected and what was found.
  */
-import { createHash } from 'node:crypto';
 import { InputError } from '../core/errors.js';
+import { sha256Text } from '../core/sha256.js';
 import { QuantityError, toSI } from '../units/quantity.js';
 import { SCENARIO_FIELDS, type Field, type SectionField } from './fields.js';
 import type { Scenario } from './types.js';
@@ -36,7 +36,7 @@ export function loadScenarioFile(file: string): LoadedScenario {
 export function loadScenarioText(source: string, file: string): LoadedScenario {
   const raw = parseJson(source, file);
   const scenario = scenarioFromRaw(raw, file);
-  return { raw, scenario, source, sha256: createHash('sha256').update(source).digest('hex'), file };
+  return { raw, scenario, source, sha256: sha256Text(source), file };
 }
 
 /** Line and column (1-based) of an offset in a text, counted without copying the text. */

@@ -11,7 +11,7 @@ import { normalQuantile } from '../core/normal.js';
 import { validateScenario } from '../scenario/validate.js';
 import type { Tolerance } from '../scenario/types.js';
 import type { RunShot } from './headline.js';
-import { monteCarlo, type MonteCarloSummary } from './montecarlo.js';
+import type { monteCarlo, MonteCarloSummary } from './montecarlo.js';
 import { HEADLINE_KEYS, propagateModel, type HeadlineKey, type LinearPropagation } from './propagate.js';
 import { uncertaintyModel } from './uncertainInputs.js';
 
@@ -21,7 +21,8 @@ export interface UncertaintyOptions {
   waveforms: boolean;
   /** coverage probability of the intervals and bands; default: ±1σ bands and 95 % intervals */
   band?: number;
-  monteCarlo?: { shots: number; seed: number; jobs?: number };
+  /** with `runMonteCarlo` (montecarlo.ts's `monteCarlo`: passed in, so the linear part needs no worker threads) */
+  monteCarlo?: { shots: number; seed: number; jobs?: number; runMonteCarlo: typeof monteCarlo };
   /** m/s: the probability of meeting it (Monte Carlo) */
   targetVelocity?: number;
 }
@@ -48,9 +49,12 @@ export async function shotUncertainty(assessed: AssessedShot, options: Uncertain
   if (!model) return null;
   const linear = propagateModel(scenario, model, options.runShot, { waveforms: options.waveforms && assessed.shot.waveforms !== null, nominal: assessed.shot });
   const limits = scenario.limits?.peakAcceleration !== undefined ? { peakAcceleration: scenario.limits.peakAcceleration } : {};
-  const mc = options.monteCarlo
-    ? await monteCarlo(scenario, model, {
-        ...options.monteCarlo,
+  const asked = options.monteCarlo;
+  const mc = asked
+    ? await asked.runMonteCarlo(scenario, model, {
+        shots: asked.shots,
+        seed: asked.seed,
+        ...(asked.jobs === undefined ? {} : { jobs: asked.jobs }),
         validate: (s) => validateScenario(s),
         ...(options.targetVelocity !== undefined ? { targetVelocity: options.targetVelocity } : {}),
         limits,
