@@ -148,6 +148,9 @@ describe('design page (Chromium)', () => {
     await enter('bank[0].voltage', '9.5 kV');
     await enter('bank[2].trigger', '250 us');
     await enter('armature.mass', '36 g');
+    // a unit the simple reader leaves to mathjs (the page bundles it too): 0.25 in = 6.35 mm exactly (NIST SP 811, B.8)
+    await enter('armature.position', '0.25 in');
+    await page.waitForFunction(() => document.body.dataset.state === 'drawn' && !document.querySelector('.control.bad'));
     await enter('bank[1].count', '5');
     // a slider: moved and released
     const before = await shots();
@@ -184,6 +187,7 @@ describe('design page (Chromium)', () => {
     expect(scenario.bank[1]!.count).toBe(5);
     expect(scenario.bank[2]!.label).toBe('G2 copy');
     expect(scenario.armature.mass).toBe('36 g');
+    expect(scenario.armature.position).toBe('0.25 in');
     expect(scenario.rails.length).toBe(length);
     // the published schema, checked by a general-purpose validator (Ajv, JSON Schema 2020-12)
     type AjvClass = new (options: { strict: boolean }) => { compile(schema: object): ((data: unknown) => boolean) & { errors?: unknown[] | null } };
