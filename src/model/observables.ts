@@ -2,7 +2,7 @@
  * Quantities derived from a state in a mode, with the time derivatives needed to locate their peaks as roots
  * of the derivative (model contract §5). Pure.
  */
-import { type Mode, type Plant, Stage, branchResistance, branchSource, emptyBus, solveBusInto } from './plant.js';
+import { type Mode, type Plant, Stage, branchResistance, branchSource, diffusionDrop, emptyBus, solveBusInto } from './plant.js';
 
 /** Scratch for the bus: filled and read within one call, never kept. */
 const scratchBus = emptyBus();
@@ -31,7 +31,9 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   const v = mode.moving ? y[2 * groups + 1]! : 0;
   const bus = solveBusInto(plant, y, mode, scratchBus);
   const { current, currentRate, busVoltage, loopInductance, conductance, drive, anyConducting } = bus;
-  const loadResistance = bus.loopResistance + lp * v;
+  // the circuit's gradient: L′ plus the rails' fast diffusion cells held as inductance (L′ without diffusion)
+  const lc = plant.circuitGradient;
+  const loadResistance = bus.loopResistance + lc * v;
   const groupCurrent = new Array<number>(groups);
   const groupRate = new Array<number>(groups);
   // dA/dt = Σ (du_k/dt − R_eff,k di_k/dt)/L_k, needed for d²I/dt² and the breech-voltage rate
@@ -65,9 +67,19 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   let breechVoltageRate = 0;
   let muzzleVoltage = 0;
   if (anyConducting) {
-    const loopRate = lp * v;
-    const load = loadResistance * current + plant.arcDrop;
-    const loadRate = (plant.resistanceGradient * v + lp * acceleration) * current + loadResistance * currentRate;
+    const loopRate = lc * v;
+    let load = loadResistance * current + plant.arcDrop;
+    let loadRate = (plant.resistanceGradient * v + lc * acceleration) * current + loadResistance * currentRate;
+    if (plant.modeRate.length > 0) {
+      const x = y[2 * groups]!;
+      load += diffusionDrop(plant, y, x, current);
+      // d/dt Σ R′_n (x I − A_n) = Σ R′_n (v I + x dI/dt − λ_n (x I − A_n))
+      const first = 2 * groups + 2;
+      for (let n = 0; n < plant.modeRate.length; n++) {
+        const lag = x * current - y[first + n]!;
+        loadRate += plant.modeResistance[n]! * (v * current + x * currentRate - plant.modeRate[n]! * lag);
+      }
+    }
     const denominator = 1 + loopInductance * conductance;
     const busRate =
       (loopRate * drive + loopInductance * driveRate + loadRate) / denominator -

@@ -53,6 +53,13 @@ export interface Plant {
   railLength: number;
   inductanceGradient: number;
   resistanceGradient: number;
+  /** rail current diffusion: loop R′_n and λ_n of each integrated cell (empty without diffusion) */
+  modeResistance: number[];
+  modeRate: number[];
+  /** inductance gradient of the circuit: L′ plus the fast cells' inductance held as inductance (no force) */
+  circuitGradient: number;
+  /** that held inductance gradient Σ L′_n of the fast cells (0 without diffusion) */
+  tailInductanceGradient: number;
   mass: number;
   startPosition: number;
   armatureResistance: number;
@@ -79,16 +86,21 @@ export interface StateIndex {
   voltage: (g: number) => number;
   position: number;
   velocity: number;
+  /** rail diffusion cell n: A_n = ∫₀ˣ i_L dξ and B_n = ∫₀ˣ i_L² dξ over the rails behind the armature */
+  modeFirst: (n: number) => number;
+  modeSecond: (n: number) => number;
 }
 
-function stateIndex(groups: number): StateIndex {
+function stateIndex(groups: number, modes = 0): StateIndex {
   const position = 2 * groups;
   return {
-    size: 2 * groups + 2,
+    size: 2 * groups + 2 + 2 * modes,
     current: (g) => g,
     voltage: (g) => groups + g,
     position,
     velocity: position + 1,
+    modeFirst: (n) => position + 2 + n,
+    modeSecond: (n) => position + 2 + modes + n,
   };
 }
 
@@ -97,6 +109,7 @@ export function makePlant(scenario: Scenario): Plant {
   const n = bank.map((g) => g.count);
   const drag = scenario.drag;
   const load = scenario.load ?? null;
+  const diffusion = scenario.rails.diffusion;
   if (load) {
     // the short stands where rails and armature would be: its resistance takes the armature's place in the
     // loop (and its loss the armature's ledger entry); L′ = 0, so no force and the "armature" never starts.
@@ -127,6 +140,10 @@ export function makePlant(scenario: Scenario): Plant {
     railLength: scenario.rails.length,
     inductanceGradient: scenario.rails.inductanceGradient,
     resistanceGradient: scenario.rails.resistanceGradient,
+    modeResistance: diffusion ? diffusion.modes.map((m) => m.resistanceGradient) : [],
+    modeRate: diffusion ? diffusion.modes.map((m) => m.rate) : [],
+    circuitGradient: scenario.rails.inductanceGradient + (diffusion ? diffusion.tailInductanceGradient : 0),
+    tailInductanceGradient: diffusion ? diffusion.tailInductanceGradient : 0,
     mass: scenario.armature.mass,
     startPosition: scenario.armature.position,
     armatureResistance: scenario.armature.resistance,
@@ -140,7 +157,7 @@ export function makePlant(scenario: Scenario): Plant {
     capacitorBranchResistance: bank.map((g) => (g.esr / g.count) + (g.resistance / g.count)),
     crowbarBranchResistance: bank.map((g) => ((g.crowbar?.resistance ?? 0) / g.count) + (g.resistance / g.count)),
     initialEnergy: bank.reduce((sum, g) => sum + 0.5 * g.capacitance * g.count * g.voltage * g.voltage, 0),
-    index: stateIndex(bank.length),
+    index: stateIndex(bank.length, diffusion ? diffusion.modes.length : 0),
   };
 }
 
@@ -169,6 +186,7 @@ export function evolvingComponents(plant: Plant, mode: Mode): number[] {
   for (let g = 0; g < plant.groups; g++) if (isConducting(mode.stage[g]!)) components.push(ix.current(g));
   for (let g = 0; g < plant.groups; g++) if (mode.stage[g] === Stage.Capacitor) components.push(ix.voltage(g));
   if (mode.moving) components.push(ix.position, ix.velocity);
+  for (let n = 0; n < plant.modeRate.length; n++) components.push(ix.modeFirst(n), ix.modeSecond(n));
   if (components.length === 0) components.push(ix.position);
   return components;
 }
@@ -219,7 +237,7 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   const groups = plant.groups;
   const x = y[2 * groups]!;
   const v = mode.moving ? y[2 * groups + 1]! : 0;
-  const loopInductance = plant.feedInductance + plant.loadInductance + plant.inductanceGradient * x;
+  const loopInductance = plant.feedInductance + plant.loadInductance + plant.circuitGradient * x;
   const loopResistance =
     plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
   let conductance = 0;
@@ -236,7 +254,8 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
     drive += (branchSource(plant, g, stage, y) - branchResistance(plant, g, stage) * i) * invL;
     current += i;
   }
-  const loadDrop = (loopResistance + plant.inductanceGradient * v) * current + plant.arcDrop;
+  let loadDrop = (loopResistance + plant.circuitGradient * v) * current + plant.arcDrop;
+  if (plant.modeRate.length > 0 && anyConducting) loadDrop += diffusionDrop(plant, y, x, current);
   const busVoltage = (loopInductance * drive + loadDrop) / (1 + loopInductance * conductance);
   bus.current = anyConducting ? current : 0;
   bus.busVoltage = busVoltage;
@@ -247,6 +266,14 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   bus.drive = drive;
   bus.anyConducting = anyConducting;
   return bus;
+}
+
+/** Voltage across the rails' diffusion cells, Σ R′_n (x I − A_n): the current through each cell's resistor. */
+export function diffusionDrop(plant: Plant, y: ArrayLike<number>, x: number, current: number): number {
+  const first = plant.index.position + 2;
+  let drop = 0;
+  for (let n = 0; n < plant.modeRate.length; n++) drop += plant.modeResistance[n]! * (x * current - y[first + n]!);
+  return drop;
 }
 
 /** The bus equation as a new object (event functions, settling, records). */
@@ -296,6 +323,20 @@ export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, 
   } else {
     out[2 * groups] = 0;
     out[2 * groups + 1] = 0;
+  }
+  const modes = plant.modeRate.length;
+  if (modes > 0) {
+    // each rail section is born with empty cells as the armature passes it, so no term at the moving end:
+    // dA_n/dt = λ_n (x I − A_n), dB_n/dt = 2 λ_n (I A_n − B_n)
+    const x = y[2 * groups]!;
+    const current = bus.current;
+    const first = 2 * groups + 2;
+    for (let n = 0; n < modes; n++) {
+      const a = y[first + n]!;
+      const rate = plant.modeRate[n]!;
+      out[first + n] = rate * (x * current - a);
+      out[first + modes + n] = 2 * rate * (current * a - y[first + modes + n]!);
+    }
   }
 }
 

@@ -11,6 +11,8 @@ import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMateri
 import { deriveRails } from '../conductors/rails.js';
 import { deriveArmature } from '../conductors/armature.js';
 import { bankCharacteristicTime } from '../conductors/resistance.js';
+import { FASTEST_RATE_TIMES_TAU, railDiffusionOf } from '../conductors/diffusion.js';
+import { highFrequencyCurrentWidth } from '../conductors/inductance.js';
 import { LIMIT_DIMENSIONS, validateLimits } from './limits.js';
 import { MAX_NAME_LENGTH, type QuantityField, type Range } from './fields.js';
 import { rangeProblem } from './ranges.js';
@@ -135,11 +137,32 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     if (rails.inductanceGradient === undefined) {
       scenario.rails.inductanceGradient = model === 'uniform' ? derived.inductanceGradientUniform : derived.inductanceGradientHighFrequency;
     }
-    if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
+    const resistanceModel = rails.resistanceModel as string | undefined;
+    if (resistanceModel !== undefined && resistanceModel !== 'diffusion' && resistanceModel !== 'quarter-period') {
+      throw new InputError('rails.resistanceModel', `expected "diffusion" or "quarter-period", got ${JSON.stringify(resistanceModel)}`);
+    }
+    if (resistanceModel !== undefined && rails.resistanceGradient !== undefined) {
+      throw new InputError('rails.resistanceModel', 'applies only when R\' comes from geometry and material: rails.resistanceGradient is given as a number, which the shot holds constant');
+    }
+    if (resistanceModel !== undefined && !scenario.rails.material) {
+      throw new InputError('rails.resistanceModel', 'needs rails.material (the resistivity) as well as rails.geometry');
+    }
+    if (resistanceModel === 'diffusion' && geometry.kind !== 'rectangular') {
+      throw new InputError('rails.resistanceModel', '"diffusion" is modelled for rectangular rails ({ height, width, separation }); use "quarter-period" for round rails');
+    }
+    const diffuse = rails.resistanceGradient === undefined && scenario.rails.material !== undefined && geometry.kind === 'rectangular' && resistanceModel !== 'quarter-period';
+    if (diffuse && geometry.kind === 'rectangular') {
+      const width = highFrequencyCurrentWidth(geometry);
+      const diffusion = railDiffusionOf(geometry.height * geometry.width, width, scenario.rails.material!.resistivity, FASTEST_RATE_TIMES_TAU / time, 'rails');
+      scenario.rails.diffusion = diffusion;
+      scenario.rails.resistanceGradient = diffusion.resistanceGradientDC;
+    } else if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
       scenario.rails.resistanceGradient = derived.resistanceGradient;
     }
   } else if (rails.inductanceModel !== undefined) {
     throw new InputError('rails.inductanceModel', 'only applies with rails.geometry');
+  } else if (rails.resistanceModel !== undefined) {
+    throw new InputError('rails.resistanceModel', 'only applies with rails.geometry and rails.material');
   }
   if (rails.inductanceGradient === undefined && !rails.geometry) {
     throw new InputError('rails.inductanceGradient', 'missing required key (or give rails.geometry to compute it)');

@@ -174,6 +174,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       },
       material: { kind: 'raw', description: 'rail material: a library name (copper, copper-chromium, aluminium-6061-t6, aluminium-7075-t6, aluminium-1350) or one from "materials"' },
       inductanceModel: { kind: 'text', maxLength: 40, description: 'which L\' from geometry the shot uses: "high-frequency" (default) or "uniform"' },
+      resistanceModel: { kind: 'text', maxLength: 40, description: 'how R\' from geometry and material follows the shot: "diffusion" (default for rectangular rails: the current diffuses into each rail section from the moment the armature passes it, never below the uniform-current value) or "quarter-period" (a constant R\' at the current-penetration depth of the bank\'s quarter period; the only choice for round rails)' },
     },
   },
   armature: {

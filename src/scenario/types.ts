@@ -1,6 +1,7 @@
 import type { RailGeometry } from '../conductors/inductance.js';
 import type { Material } from '../conductors/materials.js';
 import type { RailsDerived } from '../conductors/rails.js';
+import type { RailDiffusion } from '../conductors/diffusion.js';
 import type { ArmatureDerived, ArmatureGeometry } from '../conductors/armature.js';
 import type { EngineeringLimits } from './limits.js';
 
@@ -67,6 +68,11 @@ export interface Rails {
   material?: Material;
   /** what the geometry gave (both L' values, R'), when it was given */
   derived?: RailsDerived;
+  /**
+   * current diffusion into the rails during the shot (rectangular rails from geometry and material, no number for
+   * R′): the model adds its cells to resistanceGradient, which then holds the DC value 2ρ/(h w)
+   */
+  diffusion?: RailDiffusion;
 }
 
 export interface Armature {

@@ -44,5 +44,10 @@ export function absoluteTolerances(plant: Plant, relTol: number): number[] {
   }
   atol[ix.position] = relTol * plant.railLength;
   atol[ix.velocity] = relTol * velocityScale;
+  // rail diffusion cells: A_n ≤ x·I, B_n ≤ x·I²
+  for (let n = 0; n < plant.modeRate.length; n++) {
+    atol[ix.modeFirst(n)] = relTol * currentScale * plant.railLength;
+    atol[ix.modeSecond(n)] = relTol * currentScale * currentScale * plant.railLength;
+  }
   return atol;
 }

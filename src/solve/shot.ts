@@ -433,6 +433,7 @@ function finish(
         capacitors: e.capacitors,
         magnetic: e.magnetic,
         magneticRails: e.magneticRails,
+        ...(plant.modeRate.length > 0 ? { railInterior: e.railInterior } : {}),
         kinetic: e.kinetic,
         losses,
         residual: e.residual,
@@ -448,5 +449,6 @@ function finish(
     events,
     stats,
     impulse: q[QUADRATURE.impulse]!,
+    railAction: q[QUADRATURE.railAction]!,
   };
 }

@@ -27,6 +27,8 @@ export interface EnergyBudget {
   magnetic: number;
   /** ½ L(x) I², the part of the magnetic energy held by the feed and rails */
   magneticRails: number;
+  /** Σ ½ L′_n B_n, magnetic energy inside the rails held by the current-diffusion cells (only with rail diffusion) */
+  railInterior?: number;
   kinetic: number;
   losses: Losses;
   /** E0 − (E_cap + E_mag + E_kin + W_loss) */
@@ -116,4 +118,6 @@ export interface Shot {
   stats: SolverStats;
   /** ∫(F_em − F_f − F_d) dt over the moving intervals (N·s); m·v must equal it (impulse identity) */
   impulse: number;
+  /** ∫ x I² dt over the in-bore phase (A²·m·s): the rails' loss over it is their loss-equivalent loop R′ */
+  railAction?: number;
 }
