@@ -65,7 +65,8 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
   row('  left in capacitors', share(e.capacitors));
   if (launch) {
     row('  magnetic (feed + rails)', `${share(e.magneticRails)}  (the muzzle arc must absorb this)`);
-    row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails)}  (shared by the arc and module resistances)`);
+    if (e.railInterior !== undefined) row('  magnetic (inside the rails)', `${share(e.railInterior)}  (current still diffusing into the rails)`);
+    row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails - (e.railInterior ?? 0))}  (shared by the arc and module resistances)`);
   }
   // in a ring-down the short stands in the armature's place, and so does its loss
   for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${!launch && key === 'armature' ? 'short (load)' : key}`, share(e.losses[key]));
@@ -76,7 +77,15 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
     row("  L' high-frequency", `${formatQuantity(derived.inductanceGradientHighFrequency, 'H/m')} (field solution, estimated error ${formatPercent(derived.estimatedRelativeError)})`);
     row("  L' uniform current", `${formatQuantity(derived.inductanceGradientUniform, 'H/m')} (geometric mean distances)`);
     row("  L' used", formatQuantity(scenario.rails.inductanceGradient, 'H/m'));
-    row("  R' used", formatQuantity(scenario.rails.resistanceGradient, 'Ω/m'));
+    const rails = assessment.railsDerived;
+    if (scenario.rails.diffusion) {
+      row("  R' uniform current", `${formatQuantity(scenario.rails.resistanceGradient, 'Ω/m')} (the floor)`);
+      if (rails?.resistanceGradientLossEquivalent != null) {
+        row("  R' loss-equivalent", `${formatQuantity(rails.resistanceGradientLossEquivalent, 'Ω/m')} (current diffusing into each rail section from when the armature passes it)`);
+      }
+    } else {
+      row("  R' used", formatQuantity(scenario.rails.resistanceGradient, 'Ω/m'));
+    }
   }
   if (assessment.checks.length > 0) {
     lines.push('engineering checks (advice, not certification; sources in --json and the record):');
