@@ -169,3 +169,43 @@ describe('the geometry demo', () => {
     expect(width / 0.015).toBeLessThan(2.4);
   });
 });
+
+describe('bad input', () => {
+  const base = () => JSON.parse(readFileSync('scenarios/geometry-shot.json', 'utf8'));
+  const problem = (raw: Record<string, unknown>) => {
+    try {
+      scenarioFromRaw(raw, 'x.json');
+    } catch (error) {
+      return error as { where: string; problem: string };
+    }
+    return null;
+  };
+  it('refuses an unknown resistance model, naming rails.resistanceModel', () => {
+    const raw = base();
+    raw.rails.resistanceModel = 'skin';
+    expect(problem(raw)?.where).toBe('rails.resistanceModel');
+  });
+  it('refuses a resistance model beside a numeric R′ (held constant) or without a material', () => {
+    const raw = base();
+    raw.rails.resistanceModel = 'diffusion';
+    raw.rails.resistanceGradient = '0.3 mohm/m';
+    expect(problem(raw)?.problem).toMatch(/held constant|constant/);
+    const bare = base();
+    bare.rails.resistanceModel = 'diffusion';
+    delete bare.rails.material;
+    expect(problem(bare)?.where).toBe('rails.resistanceModel');
+  });
+  it('refuses diffusion for round rails', () => {
+    const raw = base();
+    raw.rails.geometry = { radius: '6 mm', centreDistance: '30 mm' };
+    raw.rails.resistanceModel = 'diffusion';
+    expect(problem(raw)?.problem).toMatch(/rectangular/);
+  });
+  it('a numeric R′ stays constant: no diffusion cells', () => {
+    const raw = base();
+    raw.rails.resistanceGradient = '0.5 mohm/m';
+    const s = scenarioFromRaw(raw, 'x.json');
+    expect(s.rails.diffusion).toBeUndefined();
+    expect(s.rails.resistanceGradient).toBeCloseTo(0.5e-3, 15);
+  });
+});
