@@ -68,6 +68,7 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
     if (e.railInterior !== undefined) row('  magnetic (inside the rails)', `${share(e.railInterior)}  (current still diffusing into the rails)`);
     row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails - (e.railInterior ?? 0))}  (shared by the arc and module resistances)`);
   }
+  if (e.afterExit !== undefined) row('  after exit (arc bound)', `${share(e.afterExit)}  (all magnetic energy and the capacitors still conducting or armed: the muzzle arc gets at most this)`);
   // in a ring-down the short stands in the armature's place, and so does its loss
   for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${!launch && key === 'armature' ? 'short (load)' : key}`, share(e.losses[key]));
   row('  ledger residual', `${formatNumber(e.residual / e.initial)} of E0`);

@@ -13,6 +13,7 @@ import {
   initialState,
   isConducting,
   makePlant,
+  Stage,
 } from '../model/plant.js';
 import { QUADRATURE, ledger, quadratureIntegrands } from '../model/ledger.js';
 import { type EventSpec, crossed, watchedEvents } from '../model/events.js';
@@ -96,7 +97,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     events.push(group >= 0 ? { t, kind: kind as EventKind, group } : { t, kind: kind as EventKind });
   };
   const recorder = keepWaveforms ? createWaveformRecorder(plant) : null;
-  const tracker = createPeakTracker(plant);
+  const tracker = createPeakTracker(plant, mode);
   let steps = 0;
   let evaluations = 0;
   let restarts = 0;
@@ -369,12 +370,28 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   if (outcome === 'stalled') events.push({ t, kind: 'stall' });
   if (outcome === 'discharged') events.push({ t, kind: 'discharged' });
   if (outcome === 'timeout') events.push({ t, kind: 'timeout' });
-  return finish(plant, scenario, y, q, t, outcome, tracker.peaks, recorder?.waveforms ?? null, events, {
+  return finish(plant, scenario, y, q, t, outcome, mode, tracker.peaks, recorder?.waveforms ?? null, events, {
     steps,
     rhsEvaluations: evaluations,
     restarts,
     relTol,
   });
+}
+
+/**
+ * Energy that leaves the in-bore phase with the armature (model contract §4): all magnetic energy still stored plus
+ * the capacitors of the modules still conducting or armed at exit, which discharge into the muzzle arc (or a shunt)
+ * and the circuit's resistances. An upper bound on the muzzle-arc energy.
+ */
+function afterExit(plant: Plant, y: number[], mode: Mode, magnetic: number): number {
+  let capacitors = 0;
+  for (let g = 0; g < plant.groups; g++) {
+    const stage = mode.stage[g]!;
+    if (stage !== Stage.Capacitor && stage !== Stage.Armed) continue;
+    const v = y[plant.index.voltage(g)]!;
+    capacitors += 0.5 * plant.capacitance[g]! * v * v;
+  }
+  return magnetic + capacitors;
 }
 
 const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;
@@ -404,6 +421,7 @@ function finish(
   q: Float64Array,
   t: number,
   outcome: Outcome,
+  mode: Mode,
   peaks: ReturnType<typeof createPeakTracker>['peaks'],
   waveforms: Shot['waveforms'],
   events: ShotEvent[],
@@ -437,12 +455,17 @@ function finish(
         kinetic: e.kinetic,
         losses,
         residual: e.residual,
+        ...(outcome === 'exited' ? { afterExit: afterExit(plant, y, mode, e.magnetic) } : {}),
       },
       modules: scenario.bank.map((group, g) => ({
         label: group.label,
         peakCurrent: peaks.groupCurrent[g]! / group.count,
-        // a crowbarred capacitor is held at 0 V from the instant it gets there: no reversal by construction
-        reversal: group.crowbar ? 0 : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
+        // a crowbarred capacitor is clamped at −(V_D + R_D·i) per module by its conducting diode
+        reversal: group.crowbar
+          ? peaks.crowbarCurrent[g]! > 0
+            ? (group.crowbar.drop + (group.crowbar.resistance * peaks.crowbarCurrent[g]!) / group.count) / group.voltage
+            : 0
+          : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
       })),
     },
     waveforms,

@@ -33,13 +33,21 @@ export interface EnergyBudget {
   losses: Losses;
   /** E0 − (E_cap + E_mag + E_kin + W_loss) */
   residual: number;
+  /**
+   * at exit only: the energy the muzzle arc (or a shunt) and the circuit's resistances share after exit, all magnetic
+   * energy plus the capacitors of modules conducting or armed at exit; an upper bound on the muzzle-arc energy
+   */
+  afterExit?: number;
 }
 
 export interface ModuleResult {
   label: string;
   /** peak current of one module of the group (A) */
   peakCurrent: number;
-  /** most negative V_k / V0_k as a positive fraction, 0 if none */
+  /**
+   * most negative V_k / V0_k as a positive fraction, 0 if none; with a crowbar, the largest diode voltage
+   * (V_D + R_D·i)/V0 across the capacitor during the crowbar stage
+   */
   reversal: number;
 }
 

@@ -78,8 +78,13 @@ const fixture = JSON.parse(readFileSync(FIXTURE, 'utf8')) as Record<string, Figu
 
 describe.each(variants())('%s', (name, scenario) => {
   it('gives the same figures as before the optional effects existed (1e-12 relative)', () => {
-    const expected = fixture[name]!;
+    const expected = structuredClone(fixture[name]!);
     expect(expected).toBeDefined();
+    // the one deliberate correction: a crowbarred module's reversal was reported as exactly 0 and is now the diode's
+    // clamp voltage (test/fidelity/corrections.test.ts checks it against its closed form)
+    scenario.bank.forEach((group, g) => {
+      if (group.crowbar) delete (expected.modules[g] as { reversal?: number }).reversal;
+    });
     const actual = figures(scenario);
     const problems: string[] = [];
     // a figure near zero (a residual, an unused loss) is compared against the shot's stored energy or its own scale
