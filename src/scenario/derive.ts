@@ -117,6 +117,7 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
     return;
   }
+  deriveDrag(scenario, read);
   const materials = userMaterials(read);
   const rails = section(read, 'rails');
   const armature = section(read, 'armature');
@@ -185,6 +186,28 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     throw new InputError('armature.mass', 'missing required key (or give armature.geometry and armature.material to compute it)');
   }
   if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
+}
+
+/**
+ * The drag law: ½ρC_dA v² with the given C_d, or the strong-shock pressure (γ+1)/2·ρ0·v² on the bore [published:
+ * Rankine–Hugoniot strong-shock limit for a piston-driven shock, e.g. Zel'dovich & Raizer, Physics of Shock Waves],
+ * which is the same law with C_d = γ + 1.
+ */
+function deriveDrag(scenario: Scenario, read: Read): void {
+  const raw = read.drag as Read | null | undefined;
+  if (!raw || !scenario.drag) return;
+  const model = raw.model as string | undefined;
+  if (model !== undefined && model !== 'coefficient' && model !== 'strong-shock') {
+    throw new InputError('drag.model', `expected "coefficient" or "strong-shock", got ${JSON.stringify(model)}`);
+  }
+  if (model === 'strong-shock') {
+    if (raw.dragCoefficient !== undefined) throw new InputError('drag.dragCoefficient', 'does not apply with drag.model "strong-shock", whose pressure (γ+1)/2·ρ0·v² has no drag coefficient; remove one of them');
+    const gamma = (raw.heatCapacityRatio as number | undefined) ?? 1.4;
+    scenario.drag = { ...scenario.drag, dragCoefficient: gamma + 1, model: 'strong-shock', heatCapacityRatio: gamma };
+    return;
+  }
+  if (raw.heatCapacityRatio !== undefined) throw new InputError('drag.heatCapacityRatio', 'applies only with drag.model "strong-shock"');
+  if (raw.dragCoefficient === undefined) throw new InputError('drag.dragCoefficient', 'missing required key (drag coefficient C_d; or give drag.model "strong-shock")');
 }
 
 /** Limits that only `railpulse size` reads (src/study/sizeInput.ts); the checks take the rest. */

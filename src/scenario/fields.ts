@@ -216,7 +216,9 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     description: 'gas drag ahead of the armature; absent = none',
     fields: {
       gasDensity: q(D.density, within(0, 1e4), 'gas density in the bore', { required: true }),
-      dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d', { required: true, noun: 'a drag coefficient' }),
+      dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d of ½ρC_dA v² (required unless model is "strong-shock")', { noun: 'a drag coefficient' }),
+      model: { kind: 'text', maxLength: 40, description: 'how the gas ahead resists: "coefficient" (default: ½ρC_dA v²) or "strong-shock" (the armature drives a strong shock into the gas column: pressure (γ+1)/2·ρ0·v², Rankine–Hugoniot strong-shock limit)' },
+      heatCapacityRatio: q(D.dimensionless, within(1, 3), 'ratio of specific heats γ of the gas ahead (strong-shock model; default 1.4, air)', { noun: 'a ratio of specific heats' }),
       boreArea: q(D.area, within(0, 100), 'bore cross-section A_b', { required: true }),
     },
   },

@@ -99,8 +99,13 @@ export interface Friction {
 
 export interface Drag {
   gasDensity: number;
+  /** C_d of ½ρC_dA v²; with the strong-shock model, γ + 1 (the same force law) */
   dragCoefficient: number;
   boreArea: number;
+  /** "strong-shock": the gas column ahead is pushed by a strong shock, pressure (γ+1)/2·ρ0·v² */
+  model?: 'strong-shock';
+  /** ratio of specific heats γ of the gas ahead (strong-shock model only) */
+  heatCapacityRatio?: number;
 }
 
 export interface SolverOptions {

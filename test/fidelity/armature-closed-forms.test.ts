@@ -2,8 +2,9 @@
  * The moving armature against closed forms of F = ½L′I² (each [derived] from Newton's second law and the force law
  * of the model contract §2, worked out beside its check), not only against the conservation laws.
  */
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { loadScenarioFile } from '../../src/scenario/load.js';
+import { loadScenarioFile, scenarioFromRaw } from '../../src/scenario/load.js';
 import { runShot } from '../../src/solve/shot.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { moduleGroup, scenario } from '../helpers/scenario.js';
@@ -143,5 +144,51 @@ describe('arc loss = V_arc·∫I dt [derived: the arc drop is constant while cur
     // the arc drop opposes the current: the armature is slower than without it
     const without = runShot(base, { waveforms: false }).results.muzzleVelocity;
     expect(shot.results.muzzleVelocity).toBeLessThan(without);
+  });
+});
+
+describe('strong-shock gas drag: pressure (γ+1)/2·ρ0·v² on the bore [published: Rankine–Hugoniot strong-shock limit of a piston-driven shock, e.g. Zel\'dovich & Raizer, Physics of Shock Waves]', () => {
+  const raw = () => JSON.parse(readFileSync('scenarios/bench-shot.json', 'utf8'));
+
+  it('coasting follows v0/(1 + k v0 t/m) with k = (γ+1)/2·ρ0·A (1e-7)', () => {
+    const file = raw();
+    file.friction = { coefficient: 0 };
+    file.rails.length = '100 m';
+    file.drag = { model: 'strong-shock', gasDensity: '1.2 kg/m^3', boreArea: '1 cm^2', heatCapacityRatio: 1.4 };
+    file.solver = { sampleInterval: '2 us', endTime: '20 ms' };
+    const s = scenarioFromRaw(file, 'shock.json');
+    const shot = runShot(s);
+    const w = shot.waveforms!;
+    const off = shot.events.find((e) => e.kind === 'turn-off')!.t;
+    let k0 = w.t.findIndex((t) => t >= off);
+    while (w.t[k0 + 1] === w.t[k0]) k0++;
+    const v0 = w.velocity[k0]!;
+    const k = ((1.4 + 1) / 2) * 1.2 * 1e-4;
+    let compared = 0;
+    for (let j = k0 + 1; j < w.t.length; j += 97) {
+      const t = w.t[j]! - w.t[k0]!;
+      expect(Math.abs(w.velocity[j]! - v0 / (1 + (k * v0 * t) / s.armature.mass)) / v0).toBeLessThan(1e-7);
+      compared++;
+    }
+    expect(compared).toBeGreaterThan(50);
+    expect(shot.results.energy.losses.drag).toBeGreaterThan(0);
+  });
+
+  it('refuses a drag coefficient beside the strong-shock model, γ without it, and an unknown model', () => {
+    const attempt = (drag: Record<string, unknown>) => {
+      const file = raw();
+      file.drag = drag;
+      try {
+        scenarioFromRaw(file, 'x.json');
+      } catch (error) {
+        return (error as { where: string }).where;
+      }
+      return null;
+    };
+    expect(attempt({ model: 'strong-shock', gasDensity: 1.2, boreArea: 1e-4, dragCoefficient: 1 })).toBe('drag.dragCoefficient');
+    expect(attempt({ gasDensity: 1.2, boreArea: 1e-4, dragCoefficient: 1, heatCapacityRatio: 1.4 })).toBe('drag.heatCapacityRatio');
+    expect(attempt({ gasDensity: 1.2, boreArea: 1e-4 })).toBe('drag.dragCoefficient');
+    expect(attempt({ model: 'shock', gasDensity: 1.2, boreArea: 1e-4 })).toBe('drag.model');
+    expect(attempt({ model: 'strong-shock', gasDensity: 1.2, boreArea: 1e-4, heatCapacityRatio: 5 })).toBe('drag.heatCapacityRatio');
   });
 });
