@@ -2,7 +2,7 @@
  * The energy ledger of the contract's §4 and the other quadratures of a shot (∫I²dt, the net-force impulse):
  * their integrands at a state, and the ledger of a state with its quadratures. Pure.
  */
-import { type Mode, type Plant, LOSS_ORDER, Stage } from './plant.js';
+import { type Mode, type Plant, LOSS_ORDER, Stage, arcDropOf, contactResistanceOf } from './plant.js';
 
 /**
  * Layout of the quadratures (the energy-loss channels in LOSS_ORDER, ∫I²dt and the net-force impulse). They are
@@ -51,8 +51,8 @@ export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: M
   if (plant.modeRate.length > 0) out[l + 4]! += diffusionLoss(plant, y, x, current, mode.moving ? y[2 * groups + 1]! : 0);
   out[QUADRATURE.railAction] = x * i2;
   out[l + 5] = plant.armatureResistance * i2;
-  out[l + 6] = plant.contactResistance * i2;
-  out[l + 7] = anyConducting ? plant.arcDrop * current : 0;
+  out[l + 6] = contactResistanceOf(plant, mode) * i2;
+  out[l + 7] = anyConducting ? arcDropOf(plant, mode) * current : 0;
   out[QUADRATURE.action] = i2;
   if (mode.moving) {
     const v = y[2 * groups + 1]!;

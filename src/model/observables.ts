@@ -2,7 +2,7 @@
  * Quantities derived from a state in a mode, with the time derivatives needed to locate their peaks as roots
  * of the derivative (model contract §5). Pure.
  */
-import { type Mode, type Plant, Stage, branchResistance, branchSource, diffusionDrop, emptyBus, solveBusInto } from './plant.js';
+import { type Mode, type Plant, Stage, arcDropOf, branchResistance, branchSource, contactResistanceOf, diffusionDrop, emptyBus, solveBusInto } from './plant.js';
 
 /** Scratch for the bus: filled and read within one call, never kept. */
 const scratchBus = emptyBus();
@@ -68,7 +68,7 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   let muzzleVoltage = 0;
   if (anyConducting) {
     const loopRate = lc * v;
-    let load = loadResistance * current + plant.arcDrop;
+    let load = loadResistance * current + arcDropOf(plant, mode);
     let loadRate = (plant.resistanceGradient * v + lc * acceleration) * current + loadResistance * currentRate;
     if (plant.modeRate.length > 0) {
       const x = y[2 * groups]!;
@@ -87,7 +87,7 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
     const currentAcceleration = driveRate - conductance * busRate;
     breechVoltage = busVoltage - plant.feedInductance * currentRate - plant.feedResistance * current;
     breechVoltageRate = busRate - plant.feedInductance * currentAcceleration - plant.feedResistance * currentRate;
-    muzzleVoltage = (plant.armatureResistance + plant.contactResistance) * current + plant.arcDrop;
+    muzzleVoltage = (plant.armatureResistance + contactResistanceOf(plant, mode)) * current + arcDropOf(plant, mode);
   }
   return {
     current,

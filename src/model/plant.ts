@@ -24,6 +24,8 @@ export const enum Stage {
 export interface Mode {
   stage: Stage[];
   moving: boolean;
+  /** the solid contact has turned into an arc (armature transition); false without a transition criterion */
+  arcing?: boolean;
 }
 
 /** Loss channels, in the order of their quadrature states (model contract §4). */
@@ -65,6 +67,9 @@ export interface Plant {
   armatureResistance: number;
   contactResistance: number;
   arcDrop: number;
+  /** armature transition: action ∫I²dt at which the solid contact becomes an arc (Infinity: never), the arc drop after */
+  transitionAction: number;
+  transitionArcDrop: number;
   mu: number;
   muStatic: number;
   preload: number;
@@ -89,12 +94,15 @@ export interface StateIndex {
   /** rail diffusion cell n: A_n = ∫₀ˣ i_L dξ and B_n = ∫₀ˣ i_L² dξ over the rails behind the armature */
   modeFirst: (n: number) => number;
   modeSecond: (n: number) => number;
+  /** the contact's action ∫I²dt while solid (armature transition only; -1 without) */
+  contactAction: number;
 }
 
-function stateIndex(groups: number, modes = 0): StateIndex {
+function stateIndex(groups: number, modes = 0, transition = false): StateIndex {
   const position = 2 * groups;
   return {
-    size: 2 * groups + 2 + 2 * modes,
+    size: 2 * groups + 2 + 2 * modes + (transition ? 1 : 0),
+    contactAction: transition ? 2 * groups + 2 + 2 * modes : -1,
     current: (g) => g,
     voltage: (g) => groups + g,
     position,
@@ -149,6 +157,8 @@ export function makePlant(scenario: Scenario): Plant {
     armatureResistance: scenario.armature.resistance,
     contactResistance: scenario.armature.contactResistance,
     arcDrop: scenario.armature.arcDrop,
+    transitionAction: scenario.armature.transition?.action ?? Infinity,
+    transitionArcDrop: scenario.armature.transition?.arcDrop ?? 0,
     mu: scenario.friction.coefficient,
     muStatic: scenario.friction.staticCoefficient,
     preload: scenario.friction.preload,
@@ -157,7 +167,7 @@ export function makePlant(scenario: Scenario): Plant {
     capacitorBranchResistance: bank.map((g) => (g.esr / g.count) + (g.resistance / g.count)),
     crowbarBranchResistance: bank.map((g) => ((g.crowbar?.resistance ?? 0) / g.count) + (g.resistance / g.count)),
     initialEnergy: bank.reduce((sum, g) => sum + 0.5 * g.capacitance * g.count * g.voltage * g.voltage, 0),
-    index: stateIndex(bank.length, diffusion ? diffusion.modes.length : 0),
+    index: stateIndex(bank.length, diffusion ? diffusion.modes.length : 0, scenario.armature.transition !== undefined),
   };
 }
 
@@ -187,6 +197,7 @@ export function evolvingComponents(plant: Plant, mode: Mode): number[] {
   for (let g = 0; g < plant.groups; g++) if (mode.stage[g] === Stage.Capacitor) components.push(ix.voltage(g));
   if (mode.moving) components.push(ix.position, ix.velocity);
   for (let n = 0; n < plant.modeRate.length; n++) components.push(ix.modeFirst(n), ix.modeSecond(n));
+  if (ix.contactAction >= 0 && !mode.arcing) components.push(ix.contactAction);
   if (components.length === 0) components.push(ix.position);
   return components;
 }
@@ -239,7 +250,7 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   const v = mode.moving ? y[2 * groups + 1]! : 0;
   const loopInductance = plant.feedInductance + plant.loadInductance + plant.circuitGradient * x;
   const loopResistance =
-    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + plant.contactResistance;
+    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + contactResistanceOf(plant, mode);
   let conductance = 0;
   let drive = 0;
   let current = 0;
@@ -254,7 +265,7 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
     drive += (branchSource(plant, g, stage, y) - branchResistance(plant, g, stage) * i) * invL;
     current += i;
   }
-  let loadDrop = (loopResistance + plant.circuitGradient * v) * current + plant.arcDrop;
+  let loadDrop = (loopResistance + plant.circuitGradient * v) * current + arcDropOf(plant, mode);
   if (plant.modeRate.length > 0 && anyConducting) loadDrop += diffusionDrop(plant, y, x, current);
   const busVoltage = (loopInductance * drive + loadDrop) / (1 + loopInductance * conductance);
   bus.current = anyConducting ? current : 0;
@@ -267,6 +278,12 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   bus.anyConducting = anyConducting;
   return bus;
 }
+
+/** The arc drop in a mode: the armature's own, or after a transition the transition's arc drop. */
+export const arcDropOf = (plant: Plant, mode: Mode): number => (mode.arcing ? plant.transitionArcDrop : plant.arcDrop);
+
+/** The contact resistance in a mode: the solid contact's, none once it has turned into an arc. */
+export const contactResistanceOf = (plant: Plant, mode: Mode): number => (mode.arcing ? 0 : plant.contactResistance);
 
 /** Voltage across the rails' diffusion cells, Σ R′_n (x I − A_n): the current through each cell's resistor. */
 export function diffusionDrop(plant: Plant, y: ArrayLike<number>, x: number, current: number): number {
@@ -324,6 +341,7 @@ export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, 
     out[2 * groups] = 0;
     out[2 * groups + 1] = 0;
   }
+  if (plant.index.contactAction >= 0) out[plant.index.contactAction] = mode.arcing ? 0 : bus.current * bus.current;
   const modes = plant.modeRate.length;
   if (modes > 0) {
     // each rail section is born with empty cells as the armature passes it, so no term at the moving end:

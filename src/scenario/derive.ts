@@ -169,7 +169,14 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     throw new InputError('rails.inductanceGradient', 'missing required key (or give rails.geometry to compute it)');
   }
   const a = scenario.armature;
-  const cleanArmature = { mass: a.mass, position: a.position, resistance: a.resistance, contactResistance: a.contactResistance, arcDrop: a.arcDrop };
+  const cleanArmature: Scenario['armature'] = { mass: a.mass, position: a.position, resistance: a.resistance, contactResistance: a.contactResistance, arcDrop: a.arcDrop };
+  const transition = armature.transition as Read | null | undefined;
+  if (transition) {
+    if (a.arcDrop !== 0) throw new InputError('armature.transition', `a transition from a solid contact to an arc needs a solid armature: armature.arcDrop is ${a.arcDrop} V (an arc from the start); remove one of them`);
+    const specificAction = transition.specificAction as number;
+    const contactArea = transition.contactArea as number;
+    cleanArmature.transition = { specificAction, contactArea, arcDrop: transition.arcDrop as number, action: specificAction * contactArea * contactArea };
+  }
   scenario.armature = cleanArmature;
   if (armature.material !== undefined) scenario.armature.material = resolveMaterial(materialInSI(armature.material, 'armature.material'), 'armature.material', materials);
   if (armature.geometry) {

@@ -186,6 +186,16 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       resistance: q(D.resistance, RESISTANCE, 'armature resistance R_a', { default: 0 }),
       contactResistance: q(D.resistance, RESISTANCE, 'total contact resistance R_c', { default: 0 }),
       arcDrop: q(D.voltage, within(0, 1e5), 'arc drop V_arc (0 for a solid armature)', { default: 0 }),
+      transition: {
+        kind: 'section',
+        optional: true,
+        description: 'solid contact turning into an arc: once the action through the contact, ∫I²dt, reaches specificAction × contactArea², the arc drop applies and the contact resistance no longer does (a located event); absent = none. The criterion is common practice (an action per contact area), not a published constant: calibrate it',
+        fields: {
+          specificAction: q(D.specificAction, positive(1e20), 'specific action of the contact at the transition', { required: true, noun: 'a specific action' }),
+          contactArea: q(D.area, positive(1), 'area of the contact that carries the current', { required: true }),
+          arcDrop: q(D.voltage, positive(1e5), 'arc drop after the transition (> 0)', { required: true, noun: 'an arc drop' }),
+        },
+      },
       geometry: {
         kind: 'section',
         optional: true,

@@ -75,6 +75,22 @@ export interface Rails {
   diffusion?: RailDiffusion;
 }
 
+/**
+ * Armature transition: the solid contact turns into an arc once the action through it, ∫I²dt, reaches
+ * specificAction·contactArea² (a specific action of the contact, A²·s/m⁴); from then on the arc drop applies and
+ * the solid contact resistance no longer does.
+ */
+export interface ArmatureTransition {
+  /** specific action of the contact at which it turns into an arc (A²·s/m⁴) */
+  specificAction: number;
+  /** the contact area that carries the current (m²) */
+  contactArea: number;
+  /** arc drop after the transition (V) */
+  arcDrop: number;
+  /** specificAction·contactArea² (A²·s) */
+  action: number;
+}
+
 export interface Armature {
   mass: number;
   /** initial distance from the breech x0 (m) */
@@ -82,6 +98,7 @@ export interface Armature {
   resistance: number;
   contactResistance: number;
   arcDrop: number;
+  transition?: ArmatureTransition;
   geometry?: ArmatureGeometry;
   material?: Material;
   /** cross-section, volume, mass and resistance from geometry and material */

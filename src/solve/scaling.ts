@@ -44,6 +44,8 @@ export function absoluteTolerances(plant: Plant, relTol: number): number[] {
   }
   atol[ix.position] = relTol * plant.railLength;
   atol[ix.velocity] = relTol * velocityScale;
+  // the contact's action: it only locates the transition, so its scale is the threshold
+  if (ix.contactAction >= 0) atol[ix.contactAction] = relTol * plant.transitionAction;
   // rail diffusion cells: A_n ≤ x·I, B_n ≤ x·I²
   for (let n = 0; n < plant.modeRate.length; n++) {
     atol[ix.modeFirst(n)] = relTol * currentScale * plant.railLength;

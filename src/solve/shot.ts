@@ -63,7 +63,7 @@ export class IntegrationError extends InputError {
   }
 }
 
-const EVENT_ORDER: Record<string, number> = { 'turn-off': 0, crowbar: 1, stop: 2, trigger: 3, 'turn-on': 4, start: 5, floor: 6, exit: 7 };
+const EVENT_ORDER: Record<string, number> = { 'turn-off': 0, crowbar: 1, stop: 2, transition: 3, trigger: 4, 'turn-on': 5, start: 6, floor: 7, exit: 8 };
 
 interface Located {
   time: number;
@@ -132,6 +132,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   /** events that fired at the current instant: not to fire again at the restart point */
   let justFired = new Set<string>();
   let locatedCount = 0;
+  /** the armature transition, when it happened */
+  let transition: { t: number; x: number } | null = null;
   let overflowRetries = 0;
   while (outcome === null) {
     if (locatedCount > MAX_EVENTS) {
@@ -355,6 +357,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const ordered = found.specs.slice().sort((a, b) => EVENT_ORDER[a.kind]! - EVENT_ORDER[b.kind]!);
     let exited = false;
     for (const spec of ordered) {
+      if (spec.kind === 'transition') transition = { t, x: y[ix.position]! };
       applyEvent(plant, y, mode, spec, log);
       if (spec.kind === 'exit') exited = true;
     }
@@ -370,7 +373,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   if (outcome === 'stalled') events.push({ t, kind: 'stall' });
   if (outcome === 'discharged') events.push({ t, kind: 'discharged' });
   if (outcome === 'timeout') events.push({ t, kind: 'timeout' });
-  return finish(plant, scenario, y, q, t, outcome, mode, tracker.peaks, recorder?.waveforms ?? null, events, {
+  return finish(plant, scenario, y, q, t, outcome, mode, transition, tracker.peaks, recorder?.waveforms ?? null, events, {
     steps,
     rhsEvaluations: evaluations,
     restarts,
@@ -422,6 +425,7 @@ function finish(
   t: number,
   outcome: Outcome,
   mode: Mode,
+  transition: { t: number; x: number } | null,
   peaks: ReturnType<typeof createPeakTracker>['peaks'],
   waveforms: Shot['waveforms'],
   events: ShotEvent[],
@@ -467,6 +471,7 @@ function finish(
             : 0
           : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
       })),
+      ...(transition ? { transitionTime: transition.t, transitionPosition: transition.x } : {}),
     },
     waveforms,
     events,

@@ -64,6 +64,9 @@ export interface ShotResults {
   efficiency: number;
   energy: EnergyBudget;
   modules: ModuleResult[];
+  /** armature transition (solid contact → arc): when and where it happened; absent when there is none */
+  transitionTime?: number;
+  transitionPosition?: number;
 }
 
 export type EventKind =
@@ -74,6 +77,7 @@ export type EventKind =
   | 'start'
   | 'stop'
   | 'exit'
+  | 'transition'
   | 'stall'
   | 'discharged'
   | 'timeout';
