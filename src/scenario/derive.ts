@@ -154,7 +154,7 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     const diffuse = rails.resistanceGradient === undefined && scenario.rails.material !== undefined && geometry.kind === 'rectangular' && resistanceModel !== 'quarter-period';
     if (diffuse && geometry.kind === 'rectangular') {
       const width = highFrequencyCurrentWidth(geometry);
-      const diffusion = railDiffusionOf(geometry.height * geometry.width, width, scenario.rails.material!.resistivity, FASTEST_RATE_TIMES_TAU / time, 'rails');
+      const diffusion = railDiffusionOf(geometry.height * geometry.width, width, scenario.rails.material!.resistivity, (scenario.solver.diffusionRate ?? FASTEST_RATE_TIMES_TAU) / time, 'rails');
       scenario.rails.diffusion = diffusion;
       scenario.rails.resistanceGradient = diffusion.resistanceGradientDC;
     } else if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {

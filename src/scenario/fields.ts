@@ -283,6 +283,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       sampleInterval: q(D.time, TIME, 'waveform sample interval (default 1 µs, or endTime / 2,000,000 when that is longer; 0 = event samples only)'),
       currentFloor: q(D.current, positive(1e6), 'stall current floor per module', { default: 1 }),
       maxSteps: { kind: 'integer', range: within(1, 100_000_000), default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
+      diffusionRate: q(D.dimensionless, within(0.5, 1000), "rail current diffusion (rails.resistanceModel \"diffusion\"): the fastest cell integrated, λ·τ with τ the bank's quarter period; faster cells are held as inductance. Higher is more accurate for ringing currents and slower (default 2)", { default: 2, noun: 'a rate in units of 1/τ' }),
     },
   },
 };

@@ -134,6 +134,8 @@ export interface SolverOptions {
   currentFloor: number;
   /** bound on accepted integration steps for the whole shot (never a hang) */
   maxSteps: number;
+  /** rail current diffusion: fastest cell integrated, λ·τ (default FASTEST_RATE_TIMES_TAU) */
+  diffusionRate?: number;
 }
 
 /** How the lab files a shot (scenario `record` section); text only, no effect on the simulation. */
