@@ -49,8 +49,8 @@ export function watchedEvents(plant: Plant, mode: Mode): EventSpec[] {
       specs.push({ kind: 'floor', group: g, direction: 'down', value: (_t, y) => y[ci]! - floor });
     }
   }
-  if (ix.contactAction >= 0 && !mode.arcing) {
-    const ai = ix.contactAction;
+  if (ix.action >= 0 && plant.transitionAction < Infinity && !mode.arcing) {
+    const ai = ix.action;
     const threshold = plant.transitionAction;
     specs.push({ kind: 'transition', group: -1, direction: 'up', value: (_t, y) => y[ai]! - threshold });
   }

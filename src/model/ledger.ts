@@ -2,7 +2,7 @@
  * The energy ledger of the contract's §4 and the other quadratures of a shot (∫I²dt, the net-force impulse):
  * their integrands at a state, and the ledger of a state with its quadratures. Pure.
  */
-import { type Mode, type Plant, LOSS_ORDER, Stage, arcDropOf, contactResistanceOf } from './plant.js';
+import { type Mode, type Plant, LOSS_ORDER, Stage, arcDropOf, armatureResistanceOf, contactResistanceOf, railHeatFactor, railResistance } from './plant.js';
 
 /**
  * Layout of the quadratures (the energy-loss channels in LOSS_ORDER, ∫I²dt and the net-force impulse). They are
@@ -47,10 +47,10 @@ export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: M
   out[l + 1] = crowbarLoss;
   out[l + 2] = moduleLoss;
   out[l + 3] = plant.feedResistance * i2;
-  out[l + 4] = plant.resistanceGradient * x * i2;
+  out[l + 4] = railResistance(plant, y, x) * i2;
   if (plant.modeRate.length > 0) out[l + 4]! += diffusionLoss(plant, y, x, current, mode.moving ? y[2 * groups + 1]! : 0);
   out[QUADRATURE.railAction] = x * i2;
-  out[l + 5] = plant.armatureResistance * i2;
+  out[l + 5] = armatureResistanceOf(plant, y) * i2;
   out[l + 6] = contactResistanceOf(plant, mode) * i2;
   out[l + 7] = anyConducting ? arcDropOf(plant, mode) * current : 0;
   out[QUADRATURE.action] = i2;
@@ -76,11 +76,11 @@ export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: M
 function diffusionLoss(plant: Plant, y: ArrayLike<number>, x: number, current: number, velocity: number): number {
   const modes = plant.modeRate.length;
   const first = plant.index.position + 2;
-  let loss = 0.5 * plant.tailInductanceGradient * velocity * current * current;
+  let cells = 0;
   for (let n = 0; n < modes; n++) {
-    loss += plant.modeResistance[n]! * (x * current * current - 2 * current * y[first + n]! + y[first + modes + n]!);
+    cells += plant.modeResistance[n]! * (x * current * current - 2 * current * y[first + n]! + y[first + modes + n]!);
   }
-  return loss;
+  return 0.5 * plant.tailInductanceGradient * velocity * current * current + cells * railHeatFactor(plant, y, x);
 }
 
 /** Magnetic energy inside the rails held by the diffusion cells, Σ ½ L′_n B_n. */

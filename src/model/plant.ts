@@ -70,6 +70,13 @@ export interface Plant {
   /** armature transition: action ∫I²dt at which the solid contact becomes an arc (Infinity: never), the arc drop after */
   transitionAction: number;
   transitionArcDrop: number;
+  /**
+   * adiabatic heating, ρ = ρ0(1 + αΔT) with ∫I²dt/A² = γc/(ρ0α)·ln(1 + αΔT): the resistance grows as exp(κ S) with
+   * κ = ρ0α/(A²γc) and S the action through the conductor (0: no heating). Armature: S = ∫I²dt; each rail section:
+   * the action since the armature passed it.
+   */
+  armatureHeating: number;
+  railHeating: number;
   mu: number;
   muStatic: number;
   preload: number;
@@ -94,15 +101,19 @@ export interface StateIndex {
   /** rail diffusion cell n: A_n = ∫₀ˣ i_L dξ and B_n = ∫₀ˣ i_L² dξ over the rails behind the armature */
   modeFirst: (n: number) => number;
   modeSecond: (n: number) => number;
-  /** the contact's action ∫I²dt while solid (armature transition only; -1 without) */
-  contactAction: number;
+  /** the action ∫I²dt (armature transition or heating; -1 without) */
+  action: number;
+  /** rail heating: W = ∫₀ˣ exp(−κ_r S_pass(ξ)) dξ over the rails behind the armature (-1 without) */
+  railHeat: number;
 }
 
-function stateIndex(groups: number, modes = 0, transition = false): StateIndex {
+function stateIndex(groups: number, modes = 0, action = false, railHeat = false): StateIndex {
   const position = 2 * groups;
+  const after = 2 * groups + 2 + 2 * modes;
   return {
-    size: 2 * groups + 2 + 2 * modes + (transition ? 1 : 0),
-    contactAction: transition ? 2 * groups + 2 + 2 * modes : -1,
+    size: after + (action ? 1 : 0) + (railHeat ? 1 : 0),
+    action: action ? after : -1,
+    railHeat: railHeat ? after + (action ? 1 : 0) : -1,
     current: (g) => g,
     voltage: (g) => groups + g,
     position,
@@ -159,6 +170,8 @@ export function makePlant(scenario: Scenario): Plant {
     arcDrop: scenario.armature.arcDrop,
     transitionAction: scenario.armature.transition?.action ?? Infinity,
     transitionArcDrop: scenario.armature.transition?.arcDrop ?? 0,
+    armatureHeating: scenario.heating?.armature ?? 0,
+    railHeating: scenario.heating?.rails ?? 0,
     mu: scenario.friction.coefficient,
     muStatic: scenario.friction.staticCoefficient,
     preload: scenario.friction.preload,
@@ -167,12 +180,19 @@ export function makePlant(scenario: Scenario): Plant {
     capacitorBranchResistance: bank.map((g) => (g.esr / g.count) + (g.resistance / g.count)),
     crowbarBranchResistance: bank.map((g) => ((g.crowbar?.resistance ?? 0) / g.count) + (g.resistance / g.count)),
     initialEnergy: bank.reduce((sum, g) => sum + 0.5 * g.capacitance * g.count * g.voltage * g.voltage, 0),
-    index: stateIndex(bank.length, diffusion ? diffusion.modes.length : 0, scenario.armature.transition !== undefined),
+    index: stateIndex(
+      bank.length,
+      diffusion ? diffusion.modes.length : 0,
+      scenario.armature.transition !== undefined || scenario.heating !== undefined,
+      (scenario.heating?.rails ?? 0) > 0,
+    ),
   };
 }
 
 export function initialState(plant: Plant): number[] {
   const y = new Array<number>(plant.index.size).fill(0);
+  // the rails behind the armature's start carry current from the first instant: W(0) = x0
+  if (plant.index.railHeat >= 0) y[plant.index.railHeat] = plant.startPosition;
   for (let g = 0; g < plant.groups; g++) y[plant.index.voltage(g)] = plant.chargeVoltage[g]!;
   y[plant.index.position] = plant.startPosition;
   return y;
@@ -197,7 +217,8 @@ export function evolvingComponents(plant: Plant, mode: Mode): number[] {
   for (let g = 0; g < plant.groups; g++) if (mode.stage[g] === Stage.Capacitor) components.push(ix.voltage(g));
   if (mode.moving) components.push(ix.position, ix.velocity);
   for (let n = 0; n < plant.modeRate.length; n++) components.push(ix.modeFirst(n), ix.modeSecond(n));
-  if (ix.contactAction >= 0 && !mode.arcing) components.push(ix.contactAction);
+  if (ix.action >= 0) components.push(ix.action);
+  if (ix.railHeat >= 0 && mode.moving) components.push(ix.railHeat);
   if (components.length === 0) components.push(ix.position);
   return components;
 }
@@ -250,7 +271,7 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   const v = mode.moving ? y[2 * groups + 1]! : 0;
   const loopInductance = plant.feedInductance + plant.loadInductance + plant.circuitGradient * x;
   const loopResistance =
-    plant.feedResistance + plant.resistanceGradient * x + plant.armatureResistance + contactResistanceOf(plant, mode);
+    plant.feedResistance + railResistance(plant, y, x) + armatureResistanceOf(plant, y) + contactResistanceOf(plant, mode);
   let conductance = 0;
   let drive = 0;
   let current = 0;
@@ -279,6 +300,31 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
   return bus;
 }
 
+/** Heating factor exp(κ S) of a conductor with heating coefficient κ at the state's action (1 without heating). */
+const heated = (plant: Plant, kappa: number, y: ArrayLike<number>): number => (kappa > 0 ? Math.exp(kappa * y[plant.index.action]!) : 1);
+
+/** The armature's resistance, heated: R_a·exp(κ_a S). */
+export const armatureResistanceOf = (plant: Plant, y: ArrayLike<number>): number =>
+  plant.armatureHeating > 0 ? plant.armatureResistance * heated(plant, plant.armatureHeating, y) : plant.armatureResistance;
+
+/**
+ * The rails' DC resistance behind the armature: R′x, or heated R′·exp(κ_r S)·W (each section by the action since the
+ * armature passed it).
+ */
+export function railResistance(plant: Plant, y: ArrayLike<number>, x: number): number {
+  if (plant.railHeating <= 0) return plant.resistanceGradient * x;
+  return plant.resistanceGradient * heated(plant, plant.railHeating, y) * y[plant.index.railHeat]!;
+}
+
+/**
+ * The factor by which heating raises the rails' diffusion cells, the mean over the rails behind the armature,
+ * exp(κ_r S)·W/x (1 without rail heating). Scaling R_n and λ_n together keeps L_n, so the ledger still closes.
+ */
+export function railHeatFactor(plant: Plant, y: ArrayLike<number>, x: number): number {
+  if (plant.railHeating <= 0 || !(x > 0)) return 1;
+  return (heated(plant, plant.railHeating, y) * y[plant.index.railHeat]!) / x;
+}
+
 /** The arc drop in a mode: the armature's own, or after a transition the transition's arc drop. */
 export const arcDropOf = (plant: Plant, mode: Mode): number => (mode.arcing ? plant.transitionArcDrop : plant.arcDrop);
 
@@ -290,7 +336,7 @@ export function diffusionDrop(plant: Plant, y: ArrayLike<number>, x: number, cur
   const first = plant.index.position + 2;
   let drop = 0;
   for (let n = 0; n < plant.modeRate.length; n++) drop += plant.modeResistance[n]! * (x * current - y[first + n]!);
-  return drop;
+  return drop * railHeatFactor(plant, y, x);
 }
 
 /** The bus equation as a new object (event functions, settling, records). */
@@ -341,7 +387,10 @@ export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, 
     out[2 * groups] = 0;
     out[2 * groups + 1] = 0;
   }
-  if (plant.index.contactAction >= 0) out[plant.index.contactAction] = mode.arcing ? 0 : bus.current * bus.current;
+  if (plant.index.action >= 0) out[plant.index.action] = bus.current * bus.current;
+  if (plant.index.railHeat >= 0) {
+    out[plant.index.railHeat] = mode.moving ? y[2 * groups + 1]! / heated(plant, plant.railHeating, y) : 0;
+  }
   const modes = plant.modeRate.length;
   if (modes > 0) {
     // each rail section is born with empty cells as the armature passes it, so no term at the moving end:
@@ -349,9 +398,10 @@ export function derivativesInto(plant: Plant, y: ArrayLike<number>, mode: Mode, 
     const x = y[2 * groups]!;
     const current = bus.current;
     const first = 2 * groups + 2;
+    const factor = railHeatFactor(plant, y, x);
     for (let n = 0; n < modes; n++) {
       const a = y[first + n]!;
-      const rate = plant.modeRate[n]!;
+      const rate = plant.modeRate[n]! * factor;
       out[first + n] = rate * (x * current - a);
       out[first + modes + n] = 2 * rate * (current * a - y[first + modes + n]!);
     }

@@ -52,6 +52,8 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
   if (launch) row('peak acceleration', `${formatQuantity(r.peakAcceleration, 'm/s²')} (${formatQuantity(r.peakAcceleration / STANDARD_GRAVITY, GN)})`);
   row(launch ? 'peak breech voltage' : 'peak voltage across short', formatQuantity(r.peakBreechVoltage, 'V'));
   row('action integral', formatQuantity(r.actionIntegral, 'A²·s'));
+  if (r.armatureTemperature !== undefined) row('armature temperature', `${formatQuantity(r.armatureTemperature, '°C')} at the end (adiabatic heating; its resistance rose with it)`);
+  if (r.railTemperature !== undefined) row('rail surface temperature', `${formatQuantity(r.railTemperature, '°C')} at the breech (adiabatic heating of the current layer)`);
   if (r.transitionTime !== undefined) row('contact turns into an arc', `at ${formatQuantity(r.transitionTime, 's')}, ${formatQuantity(r.transitionPosition!, 'm')} from the breech`);
   else if (scenario.armature.transition) row('contact turns into an arc', 'no (the contact action stays below armature.transition)');
   if (launch) row('efficiency', formatPercent(r.efficiency));

@@ -10,7 +10,7 @@ import { railGeometryFromObject } from '../conductors/inductance.js';
 import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material, type MaterialField } from '../conductors/materials.js';
 import { deriveRails } from '../conductors/rails.js';
 import { deriveArmature } from '../conductors/armature.js';
-import { bankCharacteristicTime } from '../conductors/resistance.js';
+import { bankCharacteristicTime, currentCarryingArea } from '../conductors/resistance.js';
 import { FASTEST_RATE_TIMES_TAU, railDiffusionOf } from '../conductors/diffusion.js';
 import { highFrequencyCurrentWidth } from '../conductors/inductance.js';
 import { LIMIT_DIMENSIONS, validateLimits } from './limits.js';
@@ -193,6 +193,27 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     throw new InputError('armature.mass', 'missing required key (or give armature.geometry and armature.material to compute it)');
   }
   if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
+  deriveHeating(scenario, read);
+}
+
+/**
+ * Adiabatic heating: κ = ρ0α/(A²γc) of the armature (its block's current area) and of the rails (the layer the
+ * rail-heating check uses: h × the penetration depth at the bank's quarter period, at most the rail).
+ */
+function deriveHeating(scenario: Scenario, read: Read): void {
+  const model = read.heating as string | undefined;
+  if (model === undefined || model === 'none') return;
+  if (model !== 'adiabatic') throw new InputError('heating', `expected "none" or "adiabatic", got ${JSON.stringify(model)}`);
+  const kappa = (m: Material, area: number) => (m.resistivity * m.temperatureCoefficient) / (area * area * m.density * m.specificHeat);
+  const a = scenario.armature;
+  const armature = a.derived && a.material ? kappa(a.material, a.derived.currentArea) : 0;
+  const r = scenario.rails;
+  const time = r.derived?.characteristicTime ?? null;
+  const rails = r.geometry && r.material && time !== null ? kappa(r.material, currentCarryingArea(r.geometry, r.material.resistivity, time)) : 0;
+  if (armature === 0 && rails === 0) {
+    throw new InputError('heating', 'needs a material to heat: give armature.geometry and armature.material, or rails.geometry and rails.material (numbers alone carry no resistivity, temperature coefficient or heat capacity)');
+  }
+  scenario.heating = { armature, rails, armatureAlpha: a.material?.temperatureCoefficient ?? 0, railAlpha: r.material?.temperatureCoefficient ?? 0 };
 }
 
 /**

@@ -232,6 +232,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       boreArea: q(D.area, within(0, 100), 'bore cross-section A_b', { required: true }),
     },
   },
+  heating: { kind: 'text', maxLength: 40, description: 'resistances rising with temperature during the shot: "none" (default) or "adiabatic" (ρ = ρ0(1 + αΔT), the temperature from the action through the conductor, γc/(ρ0α)·ln(1 + αΔT) = ∫I²dt/A²): the armature by its block (armature.geometry and material), each rail section by the action since the armature passed it (rails.geometry and material)' },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
   limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults, and the limits railpulse size must respect (peakCurrent, peakAcceleration, actionIntegral, reversal, chargeVoltage, modulesPerGroup)' },
   target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }, with an optional "confidence" (0–1) and "tieBreak" ("peakCurrent" or "none")' },

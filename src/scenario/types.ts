@@ -125,6 +125,18 @@ export interface Drag {
   heatCapacityRatio?: number;
 }
 
+/**
+ * Adiabatic heating during the shot (scenario `heating: "adiabatic"`): each conductor's resistance grows as
+ * exp(κ·S) with κ = ρ0α/(A²γc) and S the action through it (0: that conductor is not heated).
+ */
+export interface Heating {
+  armature: number;
+  rails: number;
+  /** temperature coefficients α (1/K) of the heated materials, for the reported temperatures */
+  armatureAlpha: number;
+  railAlpha: number;
+}
+
 export interface SolverOptions {
   relTol: number;
   endTime: number;
@@ -157,6 +169,8 @@ export interface Scenario {
   armature: Armature;
   friction: Friction;
   drag: Drag | null;
+  /** adiabatic heating of the armature and rails during the shot; absent = none */
+  heating?: Heating;
   /**
    * A shorted load (ring-down) instead of rails and armature; absent for a launch. With a short, `rails`,
    * `armature` and `friction` hold zeros and are not used (the file may not give them).

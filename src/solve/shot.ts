@@ -381,6 +381,17 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   });
 }
 
+/** Peak temperatures with adiabatic heating: 20 °C + (exp(κS) − 1)/α, S the action through the conductor. */
+function temperatures(scenario: Scenario, action: number): { armatureTemperature?: number; railTemperature?: number } {
+  const h = scenario.heating;
+  if (!h) return {};
+  const rise = (kappa: number, alpha: number) => 20 + Math.expm1(kappa * action) / alpha;
+  return {
+    ...(h.armature > 0 ? { armatureTemperature: rise(h.armature, h.armatureAlpha) } : {}),
+    ...(h.rails > 0 ? { railTemperature: rise(h.rails, h.railAlpha) } : {}),
+  };
+}
+
 /**
  * Energy that leaves the in-bore phase with the armature (model contract §4): all magnetic energy still stored plus
  * the capacitors of the modules still conducting or armed at exit, which discharge into the muzzle arc (or a shunt)
@@ -472,6 +483,7 @@ function finish(
           : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
       })),
       ...(transition ? { transitionTime: transition.t, transitionPosition: transition.x } : {}),
+      ...temperatures(scenario, q[QUADRATURE.action]!),
     },
     waveforms,
     events,

@@ -67,6 +67,12 @@ export interface ShotResults {
   /** armature transition (solid contact → arc): when and where it happened; absent when there is none */
   transitionTime?: number;
   transitionPosition?: number;
+  /**
+   * with heating "adiabatic": peak temperatures (°C, from 20 °C) of the armature block and of the rail surface layer at
+   * the breech (the section that carries current longest), from the action through each
+   */
+  armatureTemperature?: number;
+  railTemperature?: number;
 }
 
 export type EventKind =
