@@ -5,6 +5,7 @@
  *
  *   diffusion    rails.resistanceModel "diffusion" (off: "quarter-period"); only for rails from geometry and material
  *   transition   armature.transition (the contact turns into an arc at a specific action of the contact)
+ *   heating      heating "adiabatic"; only with materials (the geometry demo)
  *   shock drag   drag.model "strong-shock" (off: the file's drag, if any)
  *
  * Run: node --import tsx bench/effects.ts [--json]
@@ -36,6 +37,12 @@ const EFFECTS: Effect[] = [
     applies: () => true,
     on: (raw) => (raw.armature.transition = { specificAction: '5e14 A^2 s/m^4', contactArea: '3 cm^2', arcDrop: '60 V' }),
     off: (raw) => delete raw.armature.transition,
+  },
+  {
+    name: 'heating',
+    applies: (raw) => raw.armature.material !== undefined || raw.rails.material !== undefined,
+    on: (raw) => (raw.heating = 'adiabatic'),
+    off: (raw) => delete raw.heating,
   },
   {
     name: 'shock drag',
@@ -97,6 +104,8 @@ for (const demo of DEMOS) {
       muzzleVelocity: r.muzzleVelocity,
       ...r.energy.losses,
       transitionTime: r.transitionTime ?? null,
+      armatureTemperature: r.armatureTemperature ?? null,
+      railTemperature: r.railTemperature ?? null,
       residual: r.energy.residual / r.energy.initial,
     };
     rows.push(row);
