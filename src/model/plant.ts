@@ -168,7 +168,8 @@ export function makePlant(scenario: Scenario): Plant {
     armatureResistance: scenario.armature.resistance,
     contactResistance: scenario.armature.contactResistance,
     arcDrop: scenario.armature.arcDrop,
-    transitionAction: scenario.armature.transition?.action ?? Infinity,
+    // from its parts, so a study that varies either moves it
+    transitionAction: scenario.armature.transition ? scenario.armature.transition.specificAction * scenario.armature.transition.contactArea ** 2 : Infinity,
     transitionArcDrop: scenario.armature.transition?.arcDrop ?? 0,
     armatureHeating: scenario.heating?.armature ?? 0,
     railHeating: scenario.heating?.rails ?? 0,
@@ -176,7 +177,12 @@ export function makePlant(scenario: Scenario): Plant {
     muStatic: scenario.friction.staticCoefficient,
     preload: scenario.friction.preload,
     magneticLoading: scenario.friction.magneticLoading,
-    dragFactor: drag ? 0.5 * drag.gasDensity * drag.dragCoefficient * drag.boreArea : 0,
+    // strong shock: (γ+1)/2·ρ0·A (read from γ, so a study that varies drag.heatCapacityRatio moves it)
+    dragFactor: drag
+      ? drag.model === 'strong-shock'
+        ? 0.5 * drag.gasDensity * (drag.heatCapacityRatio! + 1) * drag.boreArea
+        : 0.5 * drag.gasDensity * drag.dragCoefficient * drag.boreArea
+      : 0,
     capacitorBranchResistance: bank.map((g) => (g.esr / g.count) + (g.resistance / g.count)),
     crowbarBranchResistance: bank.map((g) => ((g.crowbar?.resistance ?? 0) / g.count) + (g.resistance / g.count)),
     initialEnergy: bank.reduce((sum, g) => sum + 0.5 * g.capacitance * g.count * g.voltage * g.voltage, 0),
