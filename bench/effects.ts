@@ -66,18 +66,20 @@ function variant(file: string, on: Set<string>): Raw {
   return raw;
 }
 
-function timed(raw: Raw, name: string): { shot: Shot; ms: number } {
+function timed(raw: Raw, name: string): { shot: Shot; ms: number; cpu: number } {
   const s = scenarioFromRaw(raw, name);
   let shot = runShot(s, { waveforms: false });
   for (let k = 0; k < 3; k++) shot = runShot(s, { waveforms: false });
   const times: number[] = [];
+  const cpuStart = process.cpuUsage();
   const start = performance.now();
   while (times.length < 15 || performance.now() - start < 1500) {
     const t0 = performance.now();
     shot = runShot(s, { waveforms: false });
     times.push(performance.now() - t0);
   }
-  return { shot, ms: median(times) };
+  const cpu = process.cpuUsage(cpuStart);
+  return { shot, ms: median(times), cpu: (cpu.user + cpu.system) / 1000 / times.length };
 }
 
 const json = process.argv.includes('--json');
@@ -91,16 +93,23 @@ for (const demo of DEMOS) {
   const applicable = EFFECTS.filter((e) => e.applies(base)).map((e) => e.name);
   const sets: [string, Set<string>][] = [['all off', new Set()], ...applicable.map((n) => [n, new Set([n])] as [string, Set<string>]), ['all on', new Set(applicable)]];
   let offMs = 0;
+  let offCpu = 0;
   for (const [label, on] of sets) {
-    const { shot, ms } = timed(variant(demo, on), `${demo}.json`);
-    if (label === 'all off') offMs = ms;
+    const { shot, ms, cpu } = timed(variant(demo, on), `${demo}.json`);
+    if (label === 'all off') {
+      offMs = ms;
+      offCpu = cpu;
+    }
     const r = shot.results;
     const row = {
       demo,
       effects: label,
       ms,
       ratio: ms / offMs,
+      cpu,
+      cpuRatio: cpu / offCpu,
       steps: shot.stats.steps,
+      evaluations: shot.stats.rhsEvaluations,
       muzzleVelocity: r.muzzleVelocity,
       ...r.energy.losses,
       transitionTime: r.transitionTime ?? null,
@@ -114,7 +123,7 @@ for (const demo of DEMOS) {
 if (json) console.log(JSON.stringify(rows, null, 1));
 else {
   const keys = ['bank', 'crowbar', 'modules', 'feed', 'rails', 'armature', 'contacts', 'arc', 'friction', 'drag'];
-  console.log(['demo'.padEnd(15), 'effects'.padEnd(12), 'ms/shot'.padStart(8), '×off'.padStart(5), 'steps'.padStart(6), 'v m/s'.padStart(8), ...keys.map((k) => `${k} kJ`.padStart(11)), 'transition'.padStart(11)].join(' '));
+  console.log(['demo'.padEnd(15), 'effects'.padEnd(12), 'ms/shot'.padStart(8), '×off'.padStart(5), 'cpu ms'.padStart(7), '×off'.padStart(5), 'steps'.padStart(6), 'evals'.padStart(6), 'v m/s'.padStart(8), ...keys.map((k) => `${k} kJ`.padStart(11)), 'transition'.padStart(11)].join(' '));
   for (const row of rows as Record<string, any>[]) {
     console.log(
       [
@@ -122,7 +131,10 @@ else {
         String(row.effects).padEnd(12),
         row.ms.toFixed(2).padStart(8),
         row.ratio.toFixed(2).padStart(5),
+        row.cpu.toFixed(2).padStart(7),
+        row.cpuRatio.toFixed(2).padStart(5),
         String(row.steps).padStart(6),
+        String(row.evaluations).padStart(6),
         row.muzzleVelocity.toFixed(1).padStart(8),
         ...keys.map((k) => (row[k] / 1e3).toFixed(3).padStart(11)),
         (row.transitionTime === null ? '—' : `${(row.transitionTime * 1e6).toFixed(1)} µs`).padStart(11),
