@@ -307,7 +307,22 @@ export function solveBusInto(plant: Plant, y: ArrayLike<number>, mode: Mode, bus
 }
 
 /** Heating factor exp(κ S) of a conductor with heating coefficient κ at the state's action (1 without heating). */
-const heated = (plant: Plant, kappa: number, y: ArrayLike<number>): number => (kappa > 0 ? Math.exp(kappa * y[plant.index.action]!) : 1);
+function heated(plant: Plant, kappa: number, y: ArrayLike<number>): number {
+  if (!(kappa > 0)) return 1;
+  const exponent = kappa * y[plant.index.action]!;
+  // the right-hand side, the ledger and the observables ask for the same factor several times at one state
+  if (exponent === lastExponent[0]) return lastFactor[0]!;
+  if (exponent === lastExponent[1]) return lastFactor[1]!;
+  const factor = Math.exp(exponent);
+  lastExponent[1] = lastExponent[0]!;
+  lastFactor[1] = lastFactor[0]!;
+  lastExponent[0] = exponent;
+  lastFactor[0] = factor;
+  return factor;
+}
+/** The last two heating exponents and their factors (a cache of pure values: any plant may share it). */
+const lastExponent = new Float64Array([NaN, NaN]);
+const lastFactor = new Float64Array([1, 1]);
 
 /** The armature's resistance, heated: R_a·exp(κ_a S). */
 export const armatureResistanceOf = (plant: Plant, y: ArrayLike<number>): number =>
