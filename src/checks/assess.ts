@@ -70,7 +70,7 @@ export function statusOf(
 }
 
 export function assessShot(scenario: Scenario, shot: Shot): Assessment {
-  const railsDerived = railsDerivedJson(scenario);
+  const railsDerived = railsDerivedJson(scenario, shot);
   const checks = shotChecks(scenario, shot.results);
   const warnings = shotWarnings(scenario, shot);
   return {

@@ -3,6 +3,7 @@
  * (geometry, materials, contact model, thresholds) and the results. Used by run, reports and studies alike.
  */
 import type { Scenario } from '../scenario/types.js';
+import type { Shot } from '../solve/types.js';
 import type { ShotResults } from '../solve/types.js';
 import { engineeringChecks, type Check } from './engineering.js';
 
@@ -51,10 +52,18 @@ export function checkIdsFor(scenario: Scenario, variedPaths: readonly string[] =
 /** The `railsDerived` block of the JSON output, when the rails were given by geometry. */
 export type RailsDerivedJson = NonNullable<ReturnType<typeof railsDerivedJson>>;
 
-export function railsDerivedJson(scenario: Scenario) {
+export function railsDerivedJson(scenario: Scenario, shot?: Shot) {
   const derived = scenario.rails.derived;
   if (!derived) return undefined;
+  const diffusion = scenario.rails.diffusion;
+  const railAction = shot?.railAction ?? 0;
   return {
+    /** how R′ followed the shot: current diffusion in each rail section, or constant */
+    resistanceModel: diffusion ? ('diffusion' as const) : ('constant' as const),
+    /** the rails' loss over ∫x I² dt: the constant loop R′ that would have lost as much (Ω/m) */
+    resistanceGradientLossEquivalent: shot && railAction > 0 ? shot.results.energy.losses.rails / railAction : null,
+    /** diffusion: width of the high-frequency current sheet of one rail and the slab's depth (m), the cells integrated */
+    ...(diffusion ? { diffusionCurrentWidth: diffusion.face, diffusionDepth: diffusion.depth, diffusionCells: diffusion.modes.length, diffusionHeldInductanceGradient: diffusion.tailInductanceGradient } : {}),
     inductanceGradient: scenario.rails.inductanceGradient,
     inductanceGradientHighFrequency: derived.inductanceGradientHighFrequency,
     inductanceGradientUniform: derived.inductanceGradientUniform,

@@ -19,9 +19,10 @@ export function shotWarnings(scenario: Scenario, shot: Shot): ShotWarning[] {
   const r = shot.results;
   const warnings: ShotWarning[] = [];
   r.modules.forEach((m, g) => {
-    if (m.reversal > 0) {
-      const group = scenario.bank[g]!;
-      const rated = group.ratedReversal ?? scenario.limits?.ratedReversal ?? DEFAULT_LIMITS.ratedReversal;
+    const group = scenario.bank[g]!;
+    const rated = group.ratedReversal ?? scenario.limits?.ratedReversal ?? DEFAULT_LIMITS.ratedReversal;
+    // a crowbarred capacitor is clamped at the diode's small forward voltage: worth a warning only above the rating
+    if (m.reversal > 0 && (!group.crowbar || m.reversal > rated)) {
       warnings.push({
         id: 'reversal',
         message: `${m.label}: capacitor voltage reverses to ${formatPercent(m.reversal)} of its ${formatQuantity(group.voltage, 'V')} charge (rated ${formatPercent(rated)})${m.reversal > rated ? ' — above the rating' : ''}`,

@@ -53,6 +53,37 @@ function antiderivative(s: number, h: number): number {
  * described by `panels` (all with y ≥ 0 and x > 0).
  */
 export function loopInductanceFromPanels(panels: readonly Panel[]): number {
+  const charges = panelCharges(panels);
+  let weighted = 0;
+  for (let j = 0; j < panels.length; j++) {
+    const p = panels[j]!;
+    weighted += charges[j]! * Math.hypot(p.x1 - p.x0, p.y1 - p.y0);
+  }
+  return MU0 / (2 * Math.PI * weighted);
+}
+
+/**
+ * Width of the uniform surface current with the same Joule loss per unit surface resistance as the
+ * perfect-conductor (high-frequency) distribution of one rail: (∮K dl)² / ∮K² dl, K ∝ the panel charge of the
+ * electrostatic analogue. With a skin depth δ much thinner than the rail, the rail's resistance per metre is
+ * ρ/(δ·this width) [derived: surface resistance ρ/δ times ∮K² dl / I²]. In the panels' length unit.
+ */
+export function equivalentCurrentWidth(panels: readonly Panel[]): number {
+  const charges = panelCharges(panels);
+  let first = 0;
+  let second = 0;
+  for (let j = 0; j < panels.length; j++) {
+    const p = panels[j]!;
+    const length = Math.hypot(p.x1 - p.x0, p.y1 - p.y0);
+    first += charges[j]! * length;
+    second += charges[j]! * charges[j]! * length;
+  }
+  // the panels are the upper half of the rail; its lower half is their mirror image: (2·first)² / (2·second)
+  return (2 * first * first) / second;
+}
+
+/** The panel charges q_j (per unit length, up to a common factor) of the upper-right quarter. */
+function panelCharges(panels: readonly Panel[]): Float64Array {
   const n = panels.length;
   const matrix = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
@@ -67,13 +98,7 @@ export function loopInductanceFromPanels(panels: readonly Panel[]): number {
       matrix[i * n + j] = opposite - direct;
     }
   }
-  const charges = solveDense(matrix, new Float64Array(n).fill(1), n);
-  let weighted = 0;
-  for (let j = 0; j < n; j++) {
-    const p = panels[j]!;
-    weighted += charges[j]! * Math.hypot(p.x1 - p.x0, p.y1 - p.y0);
-  }
-  return MU0 / (2 * Math.PI * weighted);
+  return solveDense(matrix, new Float64Array(n).fill(1), n);
 }
 
 /** Gaussian elimination with partial pivoting (the matrix is small and dense; it is consumed). */

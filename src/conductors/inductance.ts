@@ -18,7 +18,7 @@
  * L′ is scale-free, so results are cached by shape ratios: a sweep over size or a repeated lookup is free.
  */
 import { InputError } from '../core/errors.js';
-import { gradedSegment, loopInductanceFromPanels, type Panel } from './bem.js';
+import { gradedSegment, loopInductanceFromPanels, equivalentCurrentWidth, type Panel } from './bem.js';
 import { logDistanceRatioOfBars } from './gmd.js';
 import { refineToConvergence } from './richardson.js';
 
@@ -222,4 +222,20 @@ function round(g: RoundRails): InductanceGradient {
     estimatedRelativeError: result.error,
     panels: result.panels,
   };
+}
+
+/**
+ * Width of one rectangular rail's surface that carries the high-frequency current, as a uniform sheet with the same
+ * loss: (∮K dl)²/∮K² dl of the perfect-conductor distribution (see equivalentCurrentWidth), in metres. The corner
+ * singularity makes the panel values converge slowly (about as N^−0.8), so the value is Aitken-extrapolated from
+ * three meshes (resolution 16, 32, 64; the extrapolated value is within about 0.1 % of the trend on the demos).
+ */
+export function highFrequencyCurrentWidth(g: RectangularRails): number {
+  const w = g.width / g.height;
+  const s = g.separation / g.height;
+  const [a, b, c] = [16, 32, 64].map((r) => equivalentCurrentWidth(rectangularRailPanels(w, s, r))) as [number, number, number];
+  const d1 = b - a;
+  const d2 = c - b;
+  const extrapolated = d2 !== d1 && Math.abs(d2) < Math.abs(d1) ? c - (d2 * d2) / (d2 - d1) : c;
+  return extrapolated * g.height;
 }

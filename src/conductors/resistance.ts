@@ -10,9 +10,10 @@
  *                                            width w, so R′ never falls below the DC value 2ρ/(h·w)
  *   R′ = 2 ρ / (π (a² − (a − min(a, δ_eff))²))  round rails: an annulus δ_eff deep, never below 2ρ/(πa²)
  *
- * ρ is the 20 °C value: rail heating during the shot and the velocity skin effect near the armature both
- * raise the real resistance, and proximity crowding onto the facing faces of round rails is ignored, so
- * this is a lower estimate of R′.
+ * ρ is the 20 °C value. δ_eff is the *instantaneous* depth at τ: over a pulse of length T the averaged depth is
+ * about ½√(2πDT), so on a long pulse this constant overstates the loss, while young rail sections behind the
+ * armature and heating raise it: neither a lower nor an upper estimate. Rectangular rails from geometry follow
+ * the diffusion during the shot instead by default (./diffusion.ts).
  */
 import { InputError } from '../core/errors.js';
 import type { RailGeometry } from './inductance.js';

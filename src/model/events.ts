@@ -11,7 +11,7 @@ import {
   startMargin,
 } from './plant.js';
 
-export type ModelEventKind = 'trigger' | 'turn-on' | 'crowbar' | 'turn-off' | 'floor' | 'start' | 'stop' | 'exit';
+export type ModelEventKind = 'trigger' | 'turn-on' | 'crowbar' | 'turn-off' | 'floor' | 'start' | 'stop' | 'exit' | 'transition';
 
 export interface EventSpec {
   kind: ModelEventKind;
@@ -48,6 +48,11 @@ export function watchedEvents(plant: Plant, mode: Mode): EventSpec[] {
       const floor = plant.floor[g]!;
       specs.push({ kind: 'floor', group: g, direction: 'down', value: (_t, y) => y[ci]! - floor });
     }
+  }
+  if (ix.action >= 0 && plant.transitionAction < Infinity && !mode.arcing) {
+    const ai = ix.action;
+    const threshold = plant.transitionAction;
+    specs.push({ kind: 'transition', group: -1, direction: 'up', value: (_t, y) => y[ai]! - threshold });
   }
   if (mode.moving) {
     const vi = ix.velocity;

@@ -2,14 +2,21 @@
  * The energy ledger of the contract's §4 and the other quadratures of a shot (∫I²dt, the net-force impulse):
  * their integrands at a state, and the ledger of a state with its quadratures. Pure.
  */
-import { type Mode, type Plant, LOSS_ORDER, Stage } from './plant.js';
+import { type Mode, type Plant, LOSS_ORDER, Stage, arcDropOf, armatureResistanceOf, contactResistanceOf, railHeatFactor, railResistance } from './plant.js';
 
 /**
  * Layout of the quadratures (the energy-loss channels in LOSS_ORDER, ∫I²dt and the net-force impulse). They are
  * integrals of the state, not part of it: the solver integrates them on the dense output of each step, so the
  * integrator's work (and its step control) covers only the 2G + 2 dynamic states.
  */
-export const QUADRATURE = { loss: 0, action: LOSS_ORDER.length, impulse: LOSS_ORDER.length + 1, size: LOSS_ORDER.length + 2 } as const;
+export const QUADRATURE = {
+  loss: 0,
+  action: LOSS_ORDER.length,
+  impulse: LOSS_ORDER.length + 1,
+  /** ∫ x I² dt: the rails' loss over it is the loss-equivalent loop R′ */
+  railAction: LOSS_ORDER.length + 2,
+  size: LOSS_ORDER.length + 3,
+} as const;
 
 /**
  * The integrands of the quadratures (layout QUADRATURE) at a state: the power of every loss channel of the
@@ -40,10 +47,12 @@ export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: M
   out[l + 1] = crowbarLoss;
   out[l + 2] = moduleLoss;
   out[l + 3] = plant.feedResistance * i2;
-  out[l + 4] = plant.resistanceGradient * x * i2;
-  out[l + 5] = plant.armatureResistance * i2;
-  out[l + 6] = plant.contactResistance * i2;
-  out[l + 7] = anyConducting ? plant.arcDrop * current : 0;
+  out[l + 4] = railResistance(plant, y, x) * i2;
+  if (plant.modeRate.length > 0) out[l + 4]! += diffusionLoss(plant, y, x, current, mode.moving ? y[2 * groups + 1]! : 0);
+  out[QUADRATURE.railAction] = x * i2;
+  out[l + 5] = armatureResistanceOf(plant, y) * i2;
+  out[l + 6] = contactResistanceOf(plant, mode) * i2;
+  out[l + 7] = anyConducting ? arcDropOf(plant, mode) * current : 0;
   out[QUADRATURE.action] = i2;
   if (mode.moving) {
     const v = y[2 * groups + 1]!;
@@ -59,10 +68,36 @@ export function quadratureIntegrands(plant: Plant, y: ArrayLike<number>, mode: M
   }
 }
 
+/**
+ * Joule loss in the rails' diffusion cells, Σ R′_n (x I² − 2 I A_n + B_n) (the cell resistor carries I − i_L in
+ * each section), plus the fast cells held as inductance: a section born with them empty at the armature loses as
+ * much as they then store, ½ L′_tail v I².
+ */
+function diffusionLoss(plant: Plant, y: ArrayLike<number>, x: number, current: number, velocity: number): number {
+  const modes = plant.modeRate.length;
+  const first = plant.index.position + 2;
+  let cells = 0;
+  for (let n = 0; n < modes; n++) {
+    cells += plant.modeResistance[n]! * (x * current * current - 2 * current * y[first + n]! + y[first + modes + n]!);
+  }
+  return 0.5 * plant.tailInductanceGradient * velocity * current * current + cells * railHeatFactor(plant, y, x);
+}
+
+/** Magnetic energy inside the rails held by the diffusion cells, Σ ½ L′_n B_n. */
+export function railInteriorEnergy(plant: Plant, y: ArrayLike<number>): number {
+  const modes = plant.modeRate.length;
+  const first = plant.index.position + 2;
+  let energy = 0;
+  for (let n = 0; n < modes; n++) energy += (0.5 * plant.modeResistance[n]! * y[first + modes + n]!) / plant.modeRate[n]!;
+  return energy;
+}
+
 export interface LedgerPoint {
   capacitors: number;
   magnetic: number;
   magneticRails: number;
+  /** Σ ½ L′_n B_n, the diffusion cells' energy inside the rails (0 without diffusion) */
+  railInterior: number;
   kinetic: number;
   losses: number[];
   residual: number;
@@ -81,7 +116,7 @@ export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLik
     moduleMagnetic += 0.5 * plant.inductance[g]! * i * i;
     current += i;
   }
-  const loopInductance = plant.feedInductance + plant.loadInductance + plant.inductanceGradient * y[ix.position]!;
+  const loopInductance = plant.feedInductance + plant.loadInductance + plant.circuitGradient * y[ix.position]!;
   const magneticRails = 0.5 * loopInductance * current * current;
   const velocity = y[ix.velocity]!;
   const kinetic = 0.5 * plant.mass * velocity * velocity;
@@ -92,11 +127,13 @@ export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLik
     losses.push(w);
     lossSum += w;
   }
-  const magnetic = moduleMagnetic + magneticRails;
+  const railInterior = plant.modeRate.length > 0 ? railInteriorEnergy(plant, y) : 0;
+  const magnetic = moduleMagnetic + magneticRails + railInterior;
   return {
     capacitors,
     magnetic,
     magneticRails,
+    railInterior,
     kinetic,
     losses,
     residual: plant.initialEnergy - (capacitors + magnetic + kinetic + lossSum),

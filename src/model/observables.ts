@@ -2,7 +2,7 @@
  * Quantities derived from a state in a mode, with the time derivatives needed to locate their peaks as roots
  * of the derivative (model contract §5). Pure.
  */
-import { type Mode, type Plant, Stage, branchResistance, branchSource, emptyBus, solveBusInto } from './plant.js';
+import { type Mode, type Plant, Stage, arcDropOf, armatureResistanceOf, branchResistance, railHeatFactor, branchSource, contactResistanceOf, diffusionDrop, emptyBus, solveBusInto } from './plant.js';
 
 /** Scratch for the bus: filled and read within one call, never kept. */
 const scratchBus = emptyBus();
@@ -31,7 +31,9 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   const v = mode.moving ? y[2 * groups + 1]! : 0;
   const bus = solveBusInto(plant, y, mode, scratchBus);
   const { current, currentRate, busVoltage, loopInductance, conductance, drive, anyConducting } = bus;
-  const loadResistance = bus.loopResistance + lp * v;
+  // the circuit's gradient: L′ plus the rails' fast diffusion cells held as inductance (L′ without diffusion)
+  const lc = plant.circuitGradient;
+  const loadResistance = bus.loopResistance + lc * v;
   const groupCurrent = new Array<number>(groups);
   const groupRate = new Array<number>(groups);
   // dA/dt = Σ (du_k/dt − R_eff,k di_k/dt)/L_k, needed for d²I/dt² and the breech-voltage rate
@@ -65,9 +67,28 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   let breechVoltageRate = 0;
   let muzzleVoltage = 0;
   if (anyConducting) {
-    const loopRate = lp * v;
-    const load = loadResistance * current + plant.arcDrop;
-    const loadRate = (plant.resistanceGradient * v + lp * acceleration) * current + loadResistance * currentRate;
+    const loopRate = lc * v;
+    let load = loadResistance * current + arcDropOf(plant, mode);
+    // d/dt of the rails' and the armature's resistance: R′v, or heated R′(κ_r I² e^(κ_r S) W + v) and R_a κ_a I²
+    const i2 = current * current;
+    const heat = plant.railHeating > 0 ? Math.exp(plant.railHeating * y[plant.index.action]!) : 1;
+    const railRate =
+      plant.railHeating > 0 ? plant.resistanceGradient * (plant.railHeating * i2 * heat * y[plant.index.railHeat]! + v) : plant.resistanceGradient * v;
+    const armatureRate = plant.armatureHeating > 0 ? armatureResistanceOf(plant, y) * plant.armatureHeating * i2 : 0;
+    let loadRate = (lc * acceleration) * current + loadResistance * currentRate + (railRate + armatureRate) * current;
+    if (plant.modeRate.length > 0) {
+      const x = y[2 * groups]!;
+      load += diffusionDrop(plant, y, x, current);
+      // with F the rails' heating factor: d/dt F Σ R′_n (x I − A_n) = F′ Σ R′_n (x I − A_n) + F Σ R′_n (v I + x dI/dt − F λ_n (x I − A_n)),
+      // F′ = κ_r I² F + v (1 − F)/x
+      const factor = railHeatFactor(plant, y, x);
+      const factorRate = plant.railHeating > 0 && x > 0 ? plant.railHeating * i2 * factor + (v * (1 - factor)) / x : 0;
+      const first = 2 * groups + 2;
+      for (let n = 0; n < plant.modeRate.length; n++) {
+        const lag = x * current - y[first + n]!;
+        loadRate += plant.modeResistance[n]! * (factorRate * lag + factor * (v * current + x * currentRate - factor * plant.modeRate[n]! * lag));
+      }
+    }
     const denominator = 1 + loopInductance * conductance;
     const busRate =
       (loopRate * drive + loopInductance * driveRate + loadRate) / denominator -
@@ -75,7 +96,7 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
     const currentAcceleration = driveRate - conductance * busRate;
     breechVoltage = busVoltage - plant.feedInductance * currentRate - plant.feedResistance * current;
     breechVoltageRate = busRate - plant.feedInductance * currentAcceleration - plant.feedResistance * currentRate;
-    muzzleVoltage = (plant.armatureResistance + plant.contactResistance) * current + plant.arcDrop;
+    muzzleVoltage = (armatureResistanceOf(plant, y) + contactResistanceOf(plant, mode)) * current + arcDropOf(plant, mode);
   }
   return {
     current,

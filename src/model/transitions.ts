@@ -35,6 +35,9 @@ export function applyEvent(plant: Plant, y: number[], mode: Mode, spec: EventSpe
       mode.moving = false;
       y[ix.velocity] = 0;
       break;
+    case 'transition':
+      mode.arcing = true;
+      break;
     case 'exit':
       break; // x is left as located (within the root tolerance of the rail length), not forced
     case 'floor':

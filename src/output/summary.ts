@@ -52,6 +52,10 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
   if (launch) row('peak acceleration', `${formatQuantity(r.peakAcceleration, 'm/s²')} (${formatQuantity(r.peakAcceleration / STANDARD_GRAVITY, GN)})`);
   row(launch ? 'peak breech voltage' : 'peak voltage across short', formatQuantity(r.peakBreechVoltage, 'V'));
   row('action integral', formatQuantity(r.actionIntegral, 'A²·s'));
+  if (r.armatureTemperature !== undefined) row('armature temperature', `${formatQuantity(r.armatureTemperature, '°C')} at the end (adiabatic heating; its resistance rose with it)`);
+  if (r.railTemperature !== undefined) row('rail surface temperature', `${formatQuantity(r.railTemperature, '°C')} at the breech (adiabatic heating of the current layer)`);
+  if (r.transitionTime !== undefined) row('contact turns into an arc', `at ${formatQuantity(r.transitionTime, 's')}, ${formatQuantity(r.transitionPosition!, 'm')} from the breech`);
+  else if (scenario.armature.transition) row('contact turns into an arc', 'no (the contact action stays below armature.transition)');
   if (launch) row('efficiency', formatPercent(r.efficiency));
   scenario.bank.forEach((group, i) => {
     const m = r.modules[i];
@@ -65,8 +69,10 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
   row('  left in capacitors', share(e.capacitors));
   if (launch) {
     row('  magnetic (feed + rails)', `${share(e.magneticRails)}  (the muzzle arc must absorb this)`);
-    row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails)}  (shared by the arc and module resistances)`);
+    if (e.railInterior !== undefined) row('  magnetic (inside the rails)', `${share(e.railInterior)}  (current still diffusing into the rails)`);
+    row('  magnetic (module coils)', `${share(e.magnetic - e.magneticRails - (e.railInterior ?? 0))}  (shared by the arc and module resistances)`);
   }
+  if (e.afterExit !== undefined) row('  after exit (arc bound)', `${share(e.afterExit)}  (all magnetic energy and the capacitors still conducting or armed: the muzzle arc gets at most this)`);
   // in a ring-down the short stands in the armature's place, and so does its loss
   for (const key of LOSS_KEYS) if (e.losses[key] !== 0) row(`  loss: ${!launch && key === 'armature' ? 'short (load)' : key}`, share(e.losses[key]));
   row('  ledger residual', `${formatNumber(e.residual / e.initial)} of E0`);
@@ -76,7 +82,15 @@ export function shotSummary(scenario: Scenario, shot: Shot, assessment: Assessme
     row("  L' high-frequency", `${formatQuantity(derived.inductanceGradientHighFrequency, 'H/m')} (field solution, estimated error ${formatPercent(derived.estimatedRelativeError)})`);
     row("  L' uniform current", `${formatQuantity(derived.inductanceGradientUniform, 'H/m')} (geometric mean distances)`);
     row("  L' used", formatQuantity(scenario.rails.inductanceGradient, 'H/m'));
-    row("  R' used", formatQuantity(scenario.rails.resistanceGradient, 'Ω/m'));
+    const rails = assessment.railsDerived;
+    if (scenario.rails.diffusion) {
+      row("  R' uniform current", `${formatQuantity(scenario.rails.resistanceGradient, 'Ω/m')} (the floor)`);
+      if (rails?.resistanceGradientLossEquivalent != null) {
+        row("  R' loss-equivalent", `${formatQuantity(rails.resistanceGradientLossEquivalent, 'Ω/m')} (current diffusing into each rail section from when the armature passes it)`);
+      }
+    } else {
+      row("  R' used", formatQuantity(scenario.rails.resistanceGradient, 'Ω/m'));
+    }
   }
   if (assessment.checks.length > 0) {
     lines.push('engineering checks (advice, not certification; sources in --json and the record):');

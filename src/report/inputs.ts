@@ -35,6 +35,16 @@ const DERIVED_UNITS: Record<string, string> = {
   resistance: '\u03A9',
 };
 
+/** Units of the rails' current-diffusion ladder the loader derives (rails.diffusion.*). */
+const DIFFUSION_UNITS: Record<string, string> = {
+  face: 'm',
+  depth: 'm',
+  resistanceGradientDC: '\u03A9/m',
+  resistanceGradient: '\u03A9/m',
+  tailInductanceGradient: 'H/m',
+  rate: '1/s',
+};
+
 /** The SI unit symbol of the quantity at a scenario path ('' for counts, text and plain numbers). */
 export function siUnitOfPath(path: string): string {
   const field = dimensionOfPath(path);
@@ -43,6 +53,10 @@ export function siUnitOfPath(path: string): string {
   if (material && material in MATERIAL_FIELD_DIMENSIONS) return DIMENSIONS[MATERIAL_FIELD_DIMENSIONS[material as MaterialField]].display;
   const limit = /^limits\.([A-Za-z]+)$/.exec(path)?.[1];
   if (limit && limit in LIMIT_DIMENSIONS) return LIMIT_DIMENSIONS[limit as keyof EngineeringLimits].display;
+  const diffusion = /^rails\.diffusion\.(?:modes\[\d+\]\.)?([A-Za-z]+)$/.exec(path)?.[1];
+  if (diffusion && diffusion in DIFFUSION_UNITS) return DIFFUSION_UNITS[diffusion]!;
+  const heating = /^heating\.([A-Za-z]+)$/.exec(path)?.[1];
+  if (heating) return heating.endsWith('Alpha') ? '1/K' : '1/(A\u00B2\u00B7s)';
   const derived = /\.derived\.([A-Za-z]+)$/.exec(path)?.[1];
   if (derived && derived in DERIVED_UNITS) return DERIVED_UNITS[derived]!;
   return '';

@@ -109,8 +109,20 @@ function keyFigures(results: ShotResults): KeyFigure[] {
       text: formatQuantity(e.magneticRails, 'J'),
       aside:
         `½L(x)I² in feed and rails, plus up to <span data-figure="moduleInductorEnergy" data-si="${moduleShare}">${formatQuantity(moduleShare, 'J')}</span>` +
-        ' from the module inductors (an upper bound: the module resistances take part of it)',
+        ' from the module inductors (the module resistances take part of it)',
     },
+    ...(e.afterExit !== undefined
+      ? [{ key: 'energy.afterExit', label: 'Energy after exit (muzzle-arc bound)', si: e.afterExit, text: formatQuantity(e.afterExit, 'J'), aside: 'all magnetic energy plus the capacitors of modules still conducting or armed at exit: the arc gets at most this' }]
+      : []),
+    ...(results.transitionTime !== undefined
+      ? [{ key: 'transitionTime', label: 'Contact turns into an arc', si: results.transitionTime, text: formatQuantity(results.transitionTime, 's'), aside: `at <span data-figure="transitionPosition" data-si="${results.transitionPosition}">${formatQuantity(results.transitionPosition!, 'm')}</span> from the breech` }]
+      : []),
+    ...(results.armatureTemperature !== undefined
+      ? [{ key: 'armatureTemperature', label: 'Armature temperature (adiabatic)', si: results.armatureTemperature, text: formatQuantity(results.armatureTemperature, '\u00B0C') }]
+      : []),
+    ...(results.railTemperature !== undefined
+      ? [{ key: 'railTemperature', label: 'Rail surface temperature at the breech (adiabatic)', si: results.railTemperature, text: formatQuantity(results.railTemperature, '\u00B0C') }]
+      : []),
   ];
 }
 

@@ -48,6 +48,7 @@ export const EVENT_TEXT: Record<ShotEvent['kind'], string> = {
   trigger: 'trigger',
   'turn-on': 'switch turns on',
   crowbar: 'crowbar diode conducts',
+  transition: 'contact turns into an arc',
   'turn-off': 'switch turns off',
   start: 'armature starts moving',
   stop: 'armature stops',

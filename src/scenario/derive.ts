@@ -10,7 +10,9 @@ import { railGeometryFromObject } from '../conductors/inductance.js';
 import { MATERIAL_FIELDS, MATERIAL_FIELD_DIMENSIONS, resolveMaterial, userMaterialsFromObject, type Material, type MaterialField } from '../conductors/materials.js';
 import { deriveRails } from '../conductors/rails.js';
 import { deriveArmature } from '../conductors/armature.js';
-import { bankCharacteristicTime } from '../conductors/resistance.js';
+import { bankCharacteristicTime, currentCarryingArea } from '../conductors/resistance.js';
+import { FASTEST_RATE_TIMES_TAU, railDiffusionOf } from '../conductors/diffusion.js';
+import { highFrequencyCurrentWidth } from '../conductors/inductance.js';
 import { LIMIT_DIMENSIONS, validateLimits } from './limits.js';
 import { MAX_NAME_LENGTH, type QuantityField, type Range } from './fields.js';
 import { rangeProblem } from './ranges.js';
@@ -115,6 +117,7 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
     return;
   }
+  deriveDrag(scenario, read);
   const materials = userMaterials(read);
   const rails = section(read, 'rails');
   const armature = section(read, 'armature');
@@ -135,17 +138,45 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     if (rails.inductanceGradient === undefined) {
       scenario.rails.inductanceGradient = model === 'uniform' ? derived.inductanceGradientUniform : derived.inductanceGradientHighFrequency;
     }
-    if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
+    const resistanceModel = rails.resistanceModel as string | undefined;
+    if (resistanceModel !== undefined && resistanceModel !== 'diffusion' && resistanceModel !== 'quarter-period') {
+      throw new InputError('rails.resistanceModel', `expected "diffusion" or "quarter-period", got ${JSON.stringify(resistanceModel)}`);
+    }
+    if (resistanceModel !== undefined && rails.resistanceGradient !== undefined) {
+      throw new InputError('rails.resistanceModel', 'applies only when R\' comes from geometry and material: rails.resistanceGradient is given as a number, which the shot holds constant');
+    }
+    if (resistanceModel !== undefined && !scenario.rails.material) {
+      throw new InputError('rails.resistanceModel', 'needs rails.material (the resistivity) as well as rails.geometry');
+    }
+    if (resistanceModel === 'diffusion' && geometry.kind !== 'rectangular') {
+      throw new InputError('rails.resistanceModel', '"diffusion" is modelled for rectangular rails ({ height, width, separation }); use "quarter-period" for round rails');
+    }
+    const diffuse = rails.resistanceGradient === undefined && scenario.rails.material !== undefined && geometry.kind === 'rectangular' && resistanceModel !== 'quarter-period';
+    if (diffuse && geometry.kind === 'rectangular') {
+      const width = highFrequencyCurrentWidth(geometry);
+      const diffusion = railDiffusionOf(geometry.height * geometry.width, width, scenario.rails.material!.resistivity, (scenario.solver.diffusionRate ?? FASTEST_RATE_TIMES_TAU) / time, 'rails');
+      scenario.rails.diffusion = diffusion;
+      scenario.rails.resistanceGradient = diffusion.resistanceGradientDC;
+    } else if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
       scenario.rails.resistanceGradient = derived.resistanceGradient;
     }
   } else if (rails.inductanceModel !== undefined) {
     throw new InputError('rails.inductanceModel', 'only applies with rails.geometry');
+  } else if (rails.resistanceModel !== undefined) {
+    throw new InputError('rails.resistanceModel', 'only applies with rails.geometry and rails.material');
   }
   if (rails.inductanceGradient === undefined && !rails.geometry) {
     throw new InputError('rails.inductanceGradient', 'missing required key (or give rails.geometry to compute it)');
   }
   const a = scenario.armature;
-  const cleanArmature = { mass: a.mass, position: a.position, resistance: a.resistance, contactResistance: a.contactResistance, arcDrop: a.arcDrop };
+  const cleanArmature: Scenario['armature'] = { mass: a.mass, position: a.position, resistance: a.resistance, contactResistance: a.contactResistance, arcDrop: a.arcDrop };
+  const transition = armature.transition as Read | null | undefined;
+  if (transition) {
+    if (a.arcDrop !== 0) throw new InputError('armature.transition', `a transition from a solid contact to an arc needs a solid armature: armature.arcDrop is ${a.arcDrop} V (an arc from the start); remove one of them`);
+    const specificAction = transition.specificAction as number;
+    const contactArea = transition.contactArea as number;
+    cleanArmature.transition = { specificAction, contactArea, arcDrop: transition.arcDrop as number, action: specificAction * contactArea * contactArea };
+  }
   scenario.armature = cleanArmature;
   if (armature.material !== undefined) scenario.armature.material = resolveMaterial(materialInSI(armature.material, 'armature.material'), 'armature.material', materials);
   if (armature.geometry) {
@@ -162,6 +193,49 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
     throw new InputError('armature.mass', 'missing required key (or give armature.geometry and armature.material to compute it)');
   }
   if (read.limits !== undefined) scenario.limits = validateLimits(limitsInSI(withoutSizingLimits(read.limits)), 'limits');
+  deriveHeating(scenario, read);
+}
+
+/**
+ * Adiabatic heating: κ = ρ0α/(A²γc) of the armature (its block's current area) and of the rails (the layer the
+ * rail-heating check uses: h × the penetration depth at the bank's quarter period, at most the rail).
+ */
+function deriveHeating(scenario: Scenario, read: Read): void {
+  const model = read.heating as string | undefined;
+  if (model === undefined || model === 'none') return;
+  if (model !== 'adiabatic') throw new InputError('heating', `expected "none" or "adiabatic", got ${JSON.stringify(model)}`);
+  const kappa = (m: Material, area: number) => (m.resistivity * m.temperatureCoefficient) / (area * area * m.density * m.specificHeat);
+  const a = scenario.armature;
+  const armature = a.derived && a.material ? kappa(a.material, a.derived.currentArea) : 0;
+  const r = scenario.rails;
+  const time = r.derived?.characteristicTime ?? null;
+  const rails = r.geometry && r.material && time !== null ? kappa(r.material, currentCarryingArea(r.geometry, r.material.resistivity, time)) : 0;
+  if (armature === 0 && rails === 0) {
+    throw new InputError('heating', 'needs a material to heat: give armature.geometry and armature.material, or rails.geometry and rails.material (numbers alone carry no resistivity, temperature coefficient or heat capacity)');
+  }
+  scenario.heating = { armature, rails, armatureAlpha: a.material?.temperatureCoefficient ?? 0, railAlpha: r.material?.temperatureCoefficient ?? 0 };
+}
+
+/**
+ * The drag law: ½ρC_dA v² with the given C_d, or the strong-shock pressure (γ+1)/2·ρ0·v² on the bore [published:
+ * Rankine–Hugoniot strong-shock limit for a piston-driven shock, e.g. Zel'dovich & Raizer, Physics of Shock Waves],
+ * which is the same law with C_d = γ + 1.
+ */
+function deriveDrag(scenario: Scenario, read: Read): void {
+  const raw = read.drag as Read | null | undefined;
+  if (!raw || !scenario.drag) return;
+  const model = raw.model as string | undefined;
+  if (model !== undefined && model !== 'coefficient' && model !== 'strong-shock') {
+    throw new InputError('drag.model', `expected "coefficient" or "strong-shock", got ${JSON.stringify(model)}`);
+  }
+  if (model === 'strong-shock') {
+    if (raw.dragCoefficient !== undefined) throw new InputError('drag.dragCoefficient', 'does not apply with drag.model "strong-shock", whose pressure (γ+1)/2·ρ0·v² has no drag coefficient; remove one of them');
+    const gamma = (raw.heatCapacityRatio as number | undefined) ?? 1.4;
+    scenario.drag = { ...scenario.drag, dragCoefficient: gamma + 1, model: 'strong-shock', heatCapacityRatio: gamma };
+    return;
+  }
+  if (raw.heatCapacityRatio !== undefined) throw new InputError('drag.heatCapacityRatio', 'applies only with drag.model "strong-shock"');
+  if (raw.dragCoefficient === undefined) throw new InputError('drag.dragCoefficient', 'missing required key (drag coefficient C_d; or give drag.model "strong-shock")');
 }
 
 /** Limits that only `railpulse size` reads (src/study/sizeInput.ts); the checks take the rest. */

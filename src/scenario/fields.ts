@@ -174,6 +174,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       },
       material: { kind: 'raw', description: 'rail material: a library name (copper, copper-chromium, aluminium-6061-t6, aluminium-7075-t6, aluminium-1350) or one from "materials"' },
       inductanceModel: { kind: 'text', maxLength: 40, description: 'which L\' from geometry the shot uses: "high-frequency" (default) or "uniform"' },
+      resistanceModel: { kind: 'text', maxLength: 40, description: 'how R\' from geometry and material follows the shot: "diffusion" (default for rectangular rails: the current diffuses into each rail section from the moment the armature passes it, never below the uniform-current value) or "quarter-period" (a constant R\' at the current-penetration depth of the bank\'s quarter period; the only choice for round rails)' },
     },
   },
   armature: {
@@ -185,6 +186,16 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       resistance: q(D.resistance, RESISTANCE, 'armature resistance R_a', { default: 0 }),
       contactResistance: q(D.resistance, RESISTANCE, 'total contact resistance R_c', { default: 0 }),
       arcDrop: q(D.voltage, within(0, 1e5), 'arc drop V_arc (0 for a solid armature)', { default: 0 }),
+      transition: {
+        kind: 'section',
+        optional: true,
+        description: 'solid contact turning into an arc: once the action through the contact, ∫I²dt, reaches specificAction × contactArea², the arc drop applies and the contact resistance no longer does (a located event); absent = none. The criterion is common practice (an action per contact area), not a published constant: calibrate it',
+        fields: {
+          specificAction: q(D.specificAction, positive(1e20), 'specific action of the contact at the transition', { required: true, noun: 'a specific action' }),
+          contactArea: q(D.area, positive(1), 'area of the contact that carries the current', { required: true }),
+          arcDrop: q(D.voltage, positive(1e5), 'arc drop after the transition (> 0)', { required: true, noun: 'an arc drop' }),
+        },
+      },
       geometry: {
         kind: 'section',
         optional: true,
@@ -215,10 +226,13 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     description: 'gas drag ahead of the armature; absent = none',
     fields: {
       gasDensity: q(D.density, within(0, 1e4), 'gas density in the bore', { required: true }),
-      dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d', { required: true, noun: 'a drag coefficient' }),
+      dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d of ½ρC_dA v² (required unless model is "strong-shock")', { noun: 'a drag coefficient' }),
+      model: { kind: 'text', maxLength: 40, description: 'how the gas ahead resists: "coefficient" (default: ½ρC_dA v²) or "strong-shock" (the armature drives a strong shock into the gas column: pressure (γ+1)/2·ρ0·v², Rankine–Hugoniot strong-shock limit)' },
+      heatCapacityRatio: q(D.dimensionless, within(1, 3), 'ratio of specific heats γ of the gas ahead (strong-shock model; default 1.4, air)', { noun: 'a ratio of specific heats' }),
       boreArea: q(D.area, within(0, 100), 'bore cross-section A_b', { required: true }),
     },
   },
+  heating: { kind: 'text', maxLength: 40, description: 'resistances rising with temperature during the shot: "none" (default) or "adiabatic" (ρ = ρ0(1 + αΔT), the temperature from the action through the conductor, γc/(ρ0α)·ln(1 + αΔT) = ∫I²dt/A²): the armature by its block (armature.geometry and material), each rail section by the action since the armature passed it (rails.geometry and material)' },
   materials: { kind: 'raw', description: 'your own materials by name: { NAME: { resistivity, temperatureCoefficient, density, specificHeat, meltingTemperature, latentHeat } }' },
   limits: { kind: 'raw', description: 'engineering-check thresholds that replace the defaults, and the limits railpulse size must respect (peakCurrent, peakAcceleration, actionIntegral, reversal, chargeVoltage, modulesPerGroup)' },
   target: { kind: 'raw', description: 'what railpulse size must reach: { "muzzleVelocity": "…" } or { "kineticEnergy": "…" }, with an optional "confidence" (0–1) and "tieBreak" ("peakCurrent" or "none")' },
@@ -270,6 +284,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       sampleInterval: q(D.time, TIME, 'waveform sample interval (default 1 µs, or endTime / 2,000,000 when that is longer; 0 = event samples only)'),
       currentFloor: q(D.current, positive(1e6), 'stall current floor per module', { default: 1 }),
       maxSteps: { kind: 'integer', range: within(1, 100_000_000), default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
+      diffusionRate: q(D.dimensionless, within(0.5, 1000), "rail current diffusion (rails.resistanceModel \"diffusion\"): the fastest cell integrated, λ·τ with τ the bank's quarter period; faster cells are held as inductance. Higher is more accurate for ringing currents and slower (default 2)", { default: 2, noun: 'a rate in units of 1/τ' }),
     },
   },
 };

@@ -249,6 +249,7 @@ function normalise(read: Record<string, unknown>): Scenario {
       preload: friction?.preload ?? 0,
       magneticLoading: friction?.magneticLoading ?? 0,
     },
+    // drag.model and drag.heatCapacityRatio are read by the derivation step (./derive.ts), which completes drag
     drag: drag ? { gasDensity: drag.gasDensity!, dragCoefficient: drag.dragCoefficient!, boreArea: drag.boreArea! } : null,
     solver: solverOptions({ ...sectionDefaults('solver'), ...(solver ?? {}) }),
   };

@@ -1,6 +1,7 @@
 import type { RailGeometry } from '../conductors/inductance.js';
 import type { Material } from '../conductors/materials.js';
 import type { RailsDerived } from '../conductors/rails.js';
+import type { RailDiffusion } from '../conductors/diffusion.js';
 import type { ArmatureDerived, ArmatureGeometry } from '../conductors/armature.js';
 import type { EngineeringLimits } from './limits.js';
 
@@ -67,6 +68,27 @@ export interface Rails {
   material?: Material;
   /** what the geometry gave (both L' values, R'), when it was given */
   derived?: RailsDerived;
+  /**
+   * current diffusion into the rails during the shot (rectangular rails from geometry and material, no number for
+   * R′): the model adds its cells to resistanceGradient, which then holds the DC value 2ρ/(h w)
+   */
+  diffusion?: RailDiffusion;
+}
+
+/**
+ * Armature transition: the solid contact turns into an arc once the action through it, ∫I²dt, reaches
+ * specificAction·contactArea² (a specific action of the contact, A²·s/m⁴); from then on the arc drop applies and
+ * the solid contact resistance no longer does.
+ */
+export interface ArmatureTransition {
+  /** specific action of the contact at which it turns into an arc (A²·s/m⁴) */
+  specificAction: number;
+  /** the contact area that carries the current (m²) */
+  contactArea: number;
+  /** arc drop after the transition (V) */
+  arcDrop: number;
+  /** specificAction·contactArea² (A²·s) */
+  action: number;
 }
 
 export interface Armature {
@@ -76,6 +98,7 @@ export interface Armature {
   resistance: number;
   contactResistance: number;
   arcDrop: number;
+  transition?: ArmatureTransition;
   geometry?: ArmatureGeometry;
   material?: Material;
   /** cross-section, volume, mass and resistance from geometry and material */
@@ -93,8 +116,25 @@ export interface Friction {
 
 export interface Drag {
   gasDensity: number;
+  /** C_d of ½ρC_dA v²; with the strong-shock model, γ + 1 (the same force law) */
   dragCoefficient: number;
   boreArea: number;
+  /** "strong-shock": the gas column ahead is pushed by a strong shock, pressure (γ+1)/2·ρ0·v² */
+  model?: 'strong-shock';
+  /** ratio of specific heats γ of the gas ahead (strong-shock model only) */
+  heatCapacityRatio?: number;
+}
+
+/**
+ * Adiabatic heating during the shot (scenario `heating: "adiabatic"`): each conductor's resistance grows as
+ * exp(κ·S) with κ = ρ0α/(A²γc) and S the action through it (0: that conductor is not heated).
+ */
+export interface Heating {
+  armature: number;
+  rails: number;
+  /** temperature coefficients α (1/K) of the heated materials, for the reported temperatures */
+  armatureAlpha: number;
+  railAlpha: number;
 }
 
 export interface SolverOptions {
@@ -106,6 +146,8 @@ export interface SolverOptions {
   currentFloor: number;
   /** bound on accepted integration steps for the whole shot (never a hang) */
   maxSteps: number;
+  /** rail current diffusion: fastest cell integrated, λ·τ (default FASTEST_RATE_TIMES_TAU) */
+  diffusionRate?: number;
 }
 
 /** How the lab files a shot (scenario `record` section); text only, no effect on the simulation. */
@@ -127,6 +169,8 @@ export interface Scenario {
   armature: Armature;
   friction: Friction;
   drag: Drag | null;
+  /** adiabatic heating of the armature and rails during the shot; absent = none */
+  heating?: Heating;
   /**
    * A shorted load (ring-down) instead of rails and armature; absent for a launch. With a short, `rails`,
    * `armature` and `friction` hold zeros and are not used (the file may not give them).

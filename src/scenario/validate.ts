@@ -47,7 +47,7 @@ function derivedNote(scenario: Scenario, path: string): string {
   if (rails && path === 'rails.inductanceGradient' && (scenario.rails.inductanceGradient === rails.inductanceGradientHighFrequency || scenario.rails.inductanceGradient === rails.inductanceGradientUniform)) {
     return ' (computed from rails.geometry)';
   }
-  if (rails && path === 'rails.resistanceGradient' && scenario.rails.resistanceGradient === rails.resistanceGradient) {
+  if (rails && path === 'rails.resistanceGradient' && (scenario.rails.resistanceGradient === rails.resistanceGradient || scenario.rails.resistanceGradient === rails.resistanceGradientDC)) {
     return ' (computed from rails.geometry and rails.material)';
   }
   const armature = scenario.armature.derived;

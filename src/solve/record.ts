@@ -2,7 +2,7 @@
  * What the solver keeps while it integrates: waveform samples (uniform grid + both sides of every event)
  * and running peaks located on the dense output.
  */
-import { type Mode, type Plant, LOSS_ORDER } from '../model/plant.js';
+import { type Mode, type Plant, LOSS_ORDER, Stage } from '../model/plant.js';
 import { ledger } from '../model/ledger.js';
 import { observe, type Observables } from '../model/observables.js';
 import type { LossKey, Waveforms } from './types.js';
@@ -63,13 +63,15 @@ export interface Peaks {
   breechVoltage: number;
   /** most negative capacitor voltage of each group */
   minimumVoltage: number[];
+  /** per group, the largest total group current while it conducts through its crowbar diode (0 if never) */
+  crowbarCurrent: number[];
 }
 
 /**
  * Running maxima. `observePoint` counts a value at an instant (step ends, event sides); `locate` finds an
  * interior maximum between two points as the root of the quantity's derivative on the dense output.
  */
-export function createPeakTracker(plant: Plant) {
+export function createPeakTracker(plant: Plant, mode?: Mode) {
   const peaks: Peaks = {
     current: 0,
     currentTime: 0,
@@ -77,7 +79,9 @@ export function createPeakTracker(plant: Plant) {
     acceleration: -Infinity,
     breechVoltage: -Infinity,
     minimumVoltage: plant.chargeVoltage.slice(),
+    crowbarCurrent: new Array<number>(plant.groups).fill(0),
   };
+  const inCrowbar = (g: number) => mode !== undefined && mode.stage[g] === Stage.Crowbar;
   const ix = plant.index;
   function observePoint(t: number, y: ArrayLike<number>, o: Observables): void {
     if (o.current > peaks.current) {
@@ -86,6 +90,7 @@ export function createPeakTracker(plant: Plant) {
     }
     for (let g = 0; g < plant.groups; g++) {
       if (o.groupCurrent[g]! > peaks.groupCurrent[g]!) peaks.groupCurrent[g] = o.groupCurrent[g]!;
+      if (inCrowbar(g) && o.groupCurrent[g]! > peaks.crowbarCurrent[g]!) peaks.crowbarCurrent[g] = o.groupCurrent[g]!;
       const v = y[ix.voltage(g)]!;
       if (v < peaks.minimumVoltage[g]!) peaks.minimumVoltage[g] = v;
     }
@@ -112,6 +117,7 @@ export function createPeakTracker(plant: Plant) {
         const tp = brentRoot((t) => at(t).groupRate[g]!, ta, tb, oa.groupRate[g]!, ob.groupRate[g]!);
         const value = at(tp).groupCurrent[g]!;
         if (value > peaks.groupCurrent[g]!) peaks.groupCurrent[g] = value;
+        if (inCrowbar(g) && value > peaks.crowbarCurrent[g]!) peaks.crowbarCurrent[g] = value;
       }
     }
     if (bracketed(oa.accelerationRate, ob.accelerationRate)) {

@@ -44,5 +44,16 @@ export function absoluteTolerances(plant: Plant, relTol: number): number[] {
   }
   atol[ix.position] = relTol * plant.railLength;
   atol[ix.velocity] = relTol * velocityScale;
+  // the action locates the transition (its scale is the threshold) and sets the heating (scale: e-folding 1/κ)
+  if (ix.action >= 0) {
+    const scales = [plant.transitionAction, plant.armatureHeating > 0 ? 1 / plant.armatureHeating : Infinity, plant.railHeating > 0 ? 1 / plant.railHeating : Infinity];
+    atol[ix.action] = relTol * Math.min(...scales);
+  }
+  if (ix.railHeat >= 0) atol[ix.railHeat] = relTol * plant.railLength;
+  // rail diffusion cells: A_n ≤ x·I, B_n ≤ x·I²
+  for (let n = 0; n < plant.modeRate.length; n++) {
+    atol[ix.modeFirst(n)] = relTol * currentScale * plant.railLength;
+    atol[ix.modeSecond(n)] = relTol * currentScale * currentScale * plant.railLength;
+  }
   return atol;
 }

@@ -13,6 +13,7 @@ import {
   initialState,
   isConducting,
   makePlant,
+  Stage,
 } from '../model/plant.js';
 import { QUADRATURE, ledger, quadratureIntegrands } from '../model/ledger.js';
 import { type EventSpec, crossed, watchedEvents } from '../model/events.js';
@@ -65,7 +66,7 @@ export class IntegrationError extends InputError {
   }
 }
 
-const EVENT_ORDER: Record<string, number> = { 'turn-off': 0, crowbar: 1, stop: 2, trigger: 3, 'turn-on': 4, start: 5, floor: 6, exit: 7 };
+const EVENT_ORDER: Record<string, number> = { 'turn-off': 0, crowbar: 1, stop: 2, transition: 3, trigger: 4, 'turn-on': 5, start: 6, floor: 7, exit: 8 };
 
 interface Located {
   time: number;
@@ -100,7 +101,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     events.push(group >= 0 ? { t, kind: kind as EventKind, group } : { t, kind: kind as EventKind });
   };
   const recorder = keepWaveforms ? createWaveformRecorder(plant) : null;
-  const tracker = createPeakTracker(plant);
+  const tracker = createPeakTracker(plant, mode);
   let steps = 0;
   let evaluations = 0;
   let restarts = 0;
@@ -137,6 +138,8 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   /** events that fired at the current instant: not to fire again at the restart point */
   let justFired = new Set<string>();
   let locatedCount = 0;
+  /** the armature transition, when it happened */
+  let transition: { t: number; x: number } | null = null;
   let overflowRetries = 0;
   while (outcome === null) {
     enter('restart');
@@ -376,6 +379,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     const ordered = found.specs.slice().sort((a, b) => EVENT_ORDER[a.kind]! - EVENT_ORDER[b.kind]!);
     let exited = false;
     for (const spec of ordered) {
+      if (spec.kind === 'transition') transition = { t, x: y[ix.position]! };
       applyEvent(plant, y, mode, spec, log);
       if (spec.kind === 'exit') exited = true;
     }
@@ -392,7 +396,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   if (outcome === 'stalled') events.push({ t, kind: 'stall' });
   if (outcome === 'discharged') events.push({ t, kind: 'discharged' });
   if (outcome === 'timeout') events.push({ t, kind: 'timeout' });
-  const shot = finish(plant, scenario, y, q, t, outcome, tracker.peaks, recorder?.waveforms ?? null, events, {
+  const shot = finish(plant, scenario, y, q, t, outcome, mode, transition, tracker.peaks, recorder?.waveforms ?? null, events, {
     steps,
     rhsEvaluations: evaluations,
     restarts,
@@ -400,6 +404,33 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   });
   enter('setup');
   return shot;
+}
+
+/** Peak temperatures with adiabatic heating: 20 °C + (exp(κS) − 1)/α, S the action through the conductor. */
+function temperatures(scenario: Scenario, action: number): { armatureTemperature?: number; railTemperature?: number } {
+  const h = scenario.heating;
+  if (!h) return {};
+  const rise = (kappa: number, alpha: number) => 20 + Math.expm1(kappa * action) / alpha;
+  return {
+    ...(h.armature > 0 ? { armatureTemperature: rise(h.armature, h.armatureAlpha) } : {}),
+    ...(h.rails > 0 ? { railTemperature: rise(h.rails, h.railAlpha) } : {}),
+  };
+}
+
+/**
+ * Energy that leaves the in-bore phase with the armature (model contract §4): all magnetic energy still stored plus
+ * the capacitors of the modules still conducting or armed at exit, which discharge into the muzzle arc (or a shunt)
+ * and the circuit's resistances. An upper bound on the muzzle-arc energy.
+ */
+function afterExit(plant: Plant, y: number[], mode: Mode, magnetic: number): number {
+  let capacitors = 0;
+  for (let g = 0; g < plant.groups; g++) {
+    const stage = mode.stage[g]!;
+    if (stage !== Stage.Capacitor && stage !== Stage.Armed) continue;
+    const v = y[plant.index.voltage(g)]!;
+    capacitors += 0.5 * plant.capacitance[g]! * v * v;
+  }
+  return magnetic + capacitors;
 }
 
 const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;
@@ -429,6 +460,8 @@ function finish(
   q: Float64Array,
   t: number,
   outcome: Outcome,
+  mode: Mode,
+  transition: { t: number; x: number } | null,
   peaks: ReturnType<typeof createPeakTracker>['peaks'],
   waveforms: Shot['waveforms'],
   events: ShotEvent[],
@@ -458,20 +491,29 @@ function finish(
         capacitors: e.capacitors,
         magnetic: e.magnetic,
         magneticRails: e.magneticRails,
+        ...(plant.modeRate.length > 0 ? { railInterior: e.railInterior } : {}),
         kinetic: e.kinetic,
         losses,
         residual: e.residual,
+        ...(outcome === 'exited' ? { afterExit: afterExit(plant, y, mode, e.magnetic) } : {}),
       },
       modules: scenario.bank.map((group, g) => ({
         label: group.label,
         peakCurrent: peaks.groupCurrent[g]! / group.count,
-        // a crowbarred capacitor is held at 0 V from the instant it gets there: no reversal by construction
-        reversal: group.crowbar ? 0 : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
+        // a crowbarred capacitor is clamped at −(V_D + R_D·i) per module by its conducting diode
+        reversal: group.crowbar
+          ? peaks.crowbarCurrent[g]! > 0
+            ? (group.crowbar.drop + (group.crowbar.resistance * peaks.crowbarCurrent[g]!) / group.count) / group.voltage
+            : 0
+          : Math.max(0, -peaks.minimumVoltage[g]! / group.voltage),
       })),
+      ...(transition ? { transitionTime: transition.t, transitionPosition: transition.x } : {}),
+      ...temperatures(scenario, q[QUADRATURE.action]!),
     },
     waveforms,
     events,
     stats,
     impulse: q[QUADRATURE.impulse]!,
+    railAction: q[QUADRATURE.railAction]!,
   };
 }

@@ -27,17 +27,27 @@ export interface EnergyBudget {
   magnetic: number;
   /** ½ L(x) I², the part of the magnetic energy held by the feed and rails */
   magneticRails: number;
+  /** Σ ½ L′_n B_n, magnetic energy inside the rails held by the current-diffusion cells (only with rail diffusion) */
+  railInterior?: number;
   kinetic: number;
   losses: Losses;
   /** E0 − (E_cap + E_mag + E_kin + W_loss) */
   residual: number;
+  /**
+   * at exit only: the energy the muzzle arc (or a shunt) and the circuit's resistances share after exit, all magnetic
+   * energy plus the capacitors of modules conducting or armed at exit; an upper bound on the muzzle-arc energy
+   */
+  afterExit?: number;
 }
 
 export interface ModuleResult {
   label: string;
   /** peak current of one module of the group (A) */
   peakCurrent: number;
-  /** most negative V_k / V0_k as a positive fraction, 0 if none */
+  /**
+   * most negative V_k / V0_k as a positive fraction, 0 if none; with a crowbar, the largest diode voltage
+   * (V_D + R_D·i)/V0 across the capacitor during the crowbar stage
+   */
   reversal: number;
 }
 
@@ -54,6 +64,15 @@ export interface ShotResults {
   efficiency: number;
   energy: EnergyBudget;
   modules: ModuleResult[];
+  /** armature transition (solid contact → arc): when and where it happened; absent when there is none */
+  transitionTime?: number;
+  transitionPosition?: number;
+  /**
+   * with heating "adiabatic": peak temperatures (°C, from 20 °C) of the armature block and of the rail surface layer at
+   * the breech (the section that carries current longest), from the action through each
+   */
+  armatureTemperature?: number;
+  railTemperature?: number;
 }
 
 export type EventKind =
@@ -64,6 +83,7 @@ export type EventKind =
   | 'start'
   | 'stop'
   | 'exit'
+  | 'transition'
   | 'stall'
   | 'discharged'
   | 'timeout';
@@ -116,4 +136,6 @@ export interface Shot {
   stats: SolverStats;
   /** ∫(F_em − F_f − F_d) dt over the moving intervals (N·s); m·v must equal it (impulse identity) */
   impulse: number;
+  /** ∫ x I² dt over the in-bore phase (A²·m·s): the rails' loss over it is their loss-equivalent loop R′ */
+  railAction?: number;
 }

@@ -119,7 +119,8 @@ describe('locked armature with crowbar: first-order RL response with the diode d
     expect(worst / shot.results.peakCurrent).toBeLessThan(1e-7);
     const off = shot.events.find((e) => e.kind === 'turn-off')!;
     expect(Math.abs(off.t - opens) / opens).toBeLessThan(1e-7);
-    // a crowbarred capacitor never reverses
-    expect(shot.results.modules[0]!.reversal).toBe(0);
+    // the conducting diode clamps the capacitor at −(V_D + R_D·i); the current is largest at onset [derived]
+    const clamp = (crowbar.drop + crowbar.resistance * ic) / cap.voltage;
+    expect(Math.abs(shot.results.modules[0]!.reversal / clamp - 1)).toBeLessThan(1e-7);
   });
 });

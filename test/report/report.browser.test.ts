@@ -31,6 +31,7 @@ const BASE_UNIT: Record<string, string> = {
   'energy.initial': 'J',
   'energy.kinetic': 'J',
   'energy.magneticRails': 'J',
+  'energy.afterExit': 'J',
   moduleInductorEnergy: 'J',
   storedEnergy: 'J',
   maxChargeVoltage: 'V',
