@@ -105,6 +105,9 @@ function checkLoadKeys(raw: Record<string, unknown>, file?: string): void {
   if (kind !== undefined && kind !== 'short') throw new InputError('load.kind', `expected "short" (the bank fired into a short at the breech), got ${describe(kind)}`, file);
   const why = 'is a launch-only key: this scenario fires the bank into a shorted load (load.kind "short"), which has no rails, armature, friction, drag or target; remove it, or remove load for a launch';
   for (const key of LAUNCH_ONLY_KEYS) if (raw[key] !== undefined) throw new InputError(key, why, file);
+  if (raw.heating !== undefined && raw.heating !== 'none') {
+    throw new InputError('heating', 'heats the rails and the armature, which a shorted load (load.kind "short") does not have; remove it, or remove load for a launch', file);
+  }
   const limits = raw.limits;
   if (typeof limits === 'object' && limits !== null) {
     for (const key of LAUNCH_ONLY_LIMITS) if (Object.hasOwn(limits, key)) throw new InputError(`limits.${key}`, why.replace('key', 'limit'), file);

@@ -101,6 +101,7 @@ describe('ring-down bad input: one line naming the file, path or option, exit 2'
   const cases: Record<string, Promise<CliResult>> = {};
   beforeAll(() => {
     writeFileSync(file('with-rails.json'), JSON.stringify({ ...ringDown('4 uH', '3 mohm', '0.25 uH', '0.8 mohm'), rails: { length: '1 m', inductanceGradient: '0.4 uH/m' } }));
+    writeFileSync(file('with-heating.json'), JSON.stringify({ ...ringDown('4 uH', '3 mohm', '0.25 uH', '0.8 mohm'), heating: 'adiabatic' }));
     writeFileSync(file('with-limit.json'), JSON.stringify({ ...ringDown('4 uH', '3 mohm', '0.25 uH', '0.8 mohm'), limits: { peakAcceleration: '1e5 m/s^2' } }));
     writeFileSync(file('no-rails.json'), JSON.stringify({ name: 'launch without rails', bank: LAUNCH.bank, feed: LAUNCH.feed, armature: LAUNCH.armature }));
     writeFileSync(file('muzzle.csv'), 't [us],I [kA],V_muzzle [V]\n0,0,0\n1,1,1\n2,2,2\n');
@@ -109,6 +110,7 @@ describe('ring-down bad input: one line naming the file, path or option, exit 2'
     writeFileSync(file('late-ring.json'), JSON.stringify({ ...ringDown('4 uH', '3 mohm', '0.25 uH', '0.8 mohm'), solver: { endTime: '1 us' } }));
     cases.rails = railpulseAsync(['run', file('with-rails.json')]);
     cases.limit = railpulseAsync(['run', file('with-limit.json')]);
+    cases.heating = railpulseAsync(['run', file('with-heating.json')]);
     cases.noRails = railpulseAsync(['run', file('no-rails.json')]);
     cases.muzzle = railpulseAsync(['overlay', file('ring.json'), file('muzzle.csv')]);
     cases.free = railpulseAsync(['fit', file('ring.json'), file('ring.csv'), '--free', 'rails.inductanceGradient']);
@@ -122,6 +124,9 @@ describe('ring-down bad input: one line naming the file, path or option, exit 2'
   });
   it('a shorted load given a launch-only check limit', async () => {
     expect(await oneLine('limit')).toMatch(/with-limit\.json: limits\.peakAcceleration: is a launch-only limit/);
+  });
+  it('a shorted load given adiabatic heating (it heats rails and an armature the short does not have)', async () => {
+    expect(await oneLine('heating')).toMatch(/with-heating\.json: heating: heats the rails and the armature, which a shorted load/);
   });
   it('a launch without rails still names the missing key', async () => {
     expect(await oneLine('noRails')).toMatch(/no-rails\.json: rails: missing required key/);
