@@ -6,7 +6,7 @@ import { existsSync, mkdirSync, renameSync, rmSync, openSync, closeSync, writeSy
 import { join } from 'node:path';
 import { InputError } from '../core/errors.js';
 import { CSV_FILE, JSONL_FILE, MANIFEST_FILE, forEachLine, isMissingOrEmptyDir, readLines, rowIndex, studyIdentity, writeNewFileAtomic, type StudyManifest } from './output.js';
-import { csvHeader, csvLine, rowLayout, UNCERTAINTY_COLUMNS, VERDICTS_PREFIX, type RowLayout } from './rows.js';
+import { csvHeader, csvLine, EFFECT_COLUMNS, rowLayout, UNCERTAINTY_COLUMNS, VERDICTS_PREFIX, type RowLayout } from './rows.js';
 import { readManifest, shardPositions } from './sweep.js';
 
 export interface MergeSummary {
@@ -19,7 +19,8 @@ export interface MergeSummary {
 export function layoutFromManifest(manifest: StudyManifest, where: string): RowLayout {
   const groupCount = manifest.columns.filter((column) => /^modules\[\d+\]\.label$/.test(column)).length;
   const checkIds = manifest.columns.filter((column) => column.startsWith(VERDICTS_PREFIX)).map((column) => column.slice(VERDICTS_PREFIX.length));
-  const layout = rowLayout(manifest.vary.map((axis) => axis.path), groupCount, checkIds, manifest.columns.includes(UNCERTAINTY_COLUMNS[0]!));
+  const effects = EFFECT_COLUMNS.filter((column) => manifest.columns.includes(column));
+  const layout = rowLayout(manifest.vary.map((axis) => axis.path), groupCount, checkIds, manifest.columns.includes(UNCERTAINTY_COLUMNS[0]!), effects);
   if (JSON.stringify(layout.columns) !== JSON.stringify(manifest.columns)) {
     throw new InputError(where, 'its columns are not those this version of railpulse writes; merge with the version that ran it');
   }

@@ -27,6 +27,8 @@ export interface RowLayout {
   /** rows carry the standard uncertainties of the headline results */
   uncertainty: boolean;
   /** every CSV column, in order */
+  /** result columns of the shot effects the scenario turns on (EFFECT_COLUMNS), after the modules' */
+  effects: string[];
   columns: string[];
 }
 
@@ -54,26 +56,48 @@ const SCALAR_RESULTS = [
   'energy.residual',
 ];
 
-export function resultColumns(groupCount: number): string[] {
+/**
+ * Results that exist only for some scenarios, in this order: the energy that leaves with the armature (every
+ * launch; blank when the armature does not exit), the energy inside the rails (rail current diffusion), the
+ * contact's transition to an arc and the adiabatic temperatures (when those options are on).
+ */
+export const EFFECT_COLUMNS = ['energy.afterExit', 'energy.railInterior', 'transitionTime', 'transitionPosition', 'armatureTemperature', 'railTemperature'] as const;
+
+/** The effect columns a study of `scenario` has. */
+export function effectColumns(scenario: Scenario): string[] {
+  if (scenario.load) return [];
+  const on: Record<(typeof EFFECT_COLUMNS)[number], boolean> = {
+    'energy.afterExit': true,
+    'energy.railInterior': scenario.rails.diffusion !== undefined,
+    transitionTime: scenario.armature.transition !== undefined,
+    transitionPosition: scenario.armature.transition !== undefined,
+    armatureTemperature: (scenario.heating?.armature ?? 0) > 0,
+    railTemperature: (scenario.heating?.rails ?? 0) > 0,
+  };
+  return EFFECT_COLUMNS.filter((column) => on[column]);
+}
+
+export function resultColumns(groupCount: number, effects: readonly string[] = []): string[] {
   const modules = Array.from({ length: groupCount }, (_, k) => [`modules[${k}].label`, `modules[${k}].peakCurrent`, `modules[${k}].reversal`]).flat();
-  return [...SCALAR_RESULTS, ...modules];
+  return [...SCALAR_RESULTS, ...modules, ...effects];
 }
 
 export const UNCERTAINTY_COLUMNS = HEADLINE_KEYS.map((key) => `uncertainty.${key}`);
 
-export function rowLayout(paths: string[], groupCount: number, checkIds: string[] = [], uncertainty = false): RowLayout {
+export function rowLayout(paths: string[], groupCount: number, checkIds: string[] = [], uncertainty = false, effects: string[] = []): RowLayout {
   return {
     paths,
     groupCount,
     checkIds,
     uncertainty,
-    columns: ['index', ...paths, ...resultColumns(groupCount), ...(uncertainty ? UNCERTAINTY_COLUMNS : []), VERDICT_COLUMN, ...checkIds.map((id) => `${VERDICTS_PREFIX}${id}`), WARNINGS_COLUMN, 'error'],
+    effects,
+    columns: ['index', ...paths, ...resultColumns(groupCount, effects), ...(uncertainty ? UNCERTAINTY_COLUMNS : []), VERDICT_COLUMN, ...checkIds.map((id) => `${VERDICTS_PREFIX}${id}`), WARNINGS_COLUMN, 'error'],
   };
 }
 
 /** The layout of a study of `scenario` varying `paths`: its result columns and a verdict column per check. */
 export function studyLayout(scenario: Scenario, paths: string[], uncertainty = false): RowLayout {
-  return rowLayout(paths, scenario.bank.length, checkIdsFor(scenario, paths), uncertainty);
+  return rowLayout(paths, scenario.bank.length, checkIdsFor(scenario, paths), uncertainty, effectColumns(scenario));
 }
 
 export type RowObject = Record<string, unknown>;
@@ -116,7 +140,7 @@ export function csvHeader(layout: RowLayout): string {
 
 /** Precomputed lookups of the result columns, so formatting a row does not re-parse paths. */
 function makeResultSteps(layout: RowLayout): PathStep[][] {
-  return [...resultColumns(layout.groupCount), ...(layout.uncertainty ? UNCERTAINTY_COLUMNS : [])].map((column) => parsePath(column)!);
+  return [...resultColumns(layout.groupCount, layout.effects), ...(layout.uncertainty ? UNCERTAINTY_COLUMNS : [])].map((column) => parsePath(column)!);
 }
 
 const stepsCache = new WeakMap<RowLayout, PathStep[][]>();

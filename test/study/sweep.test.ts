@@ -174,3 +174,47 @@ describe('sweep', () => {
     expect(bundle).not.toMatch(/\/\/ (node_modules\/mathjs|src\/units\/unit-library-entry)/);
   });
 });
+
+describe('sweep columns of the shot effects', () => {
+  // the geometry demo with every effect on (invented demo values for the transition threshold)
+  const raw = JSON.parse(readFileSync('scenarios/geometry-shot.json', 'utf8')) as Record<string, unknown> & { armature: Record<string, unknown> };
+  const withEffects = {
+    ...raw,
+    heating: 'adiabatic',
+    armature: { ...raw.armature, transition: { specificAction: '5e14 A^2*s/m^4', contactArea: '3 cm^2', arcDrop: '60 V' } },
+  };
+  const dir = mkdtempSync(join(tmpdir(), 'railpulse-effects-'));
+  const file = join(dir, 'effects.json');
+  writeFileSync(file, JSON.stringify(withEffects));
+  const effects = loadScenarioFile(file);
+
+  it('a study has a column for each effect the scenario turns on, filled from the shot, and keeps them through shards and merge', async () => {
+    const choices = (out: string, extra: Partial<SweepChoices> = {}) =>
+      makeSweepPlan({ scenario: effects.scenario, source: { file, sha256: effects.sha256 }, vary: ['bank[0].voltage=8kV,9kV'], dimensionOf: dimensionOfPath, out: join(dir, out), now: new Date('2026-01-01T00:00:00Z'), ...extra });
+    const whole = choices('whole');
+    await runSweep(whole, { jobs: 1, validate });
+    const header = read(whole.outDir, 'points.csv').split('\n')[0]!.split(',');
+    for (const column of ['energy.afterExit', 'energy.railInterior', 'transitionTime', 'transitionPosition', 'armatureTemperature', 'railTemperature']) {
+      expect(header).toContain(column);
+    }
+    const rows = read(whole.outDir, 'points.jsonl').trimEnd().split('\n').map((line) => JSON.parse(line) as Record<string, unknown>);
+    const shot = runShot(structuredClone(effects.scenario), { waveforms: false });
+    const csvRow = read(whole.outDir, 'points.csv').split('\n')[2]!.split(',');
+    // the 9 kV point is the scenario itself: its effect cells are the shot's own figures
+    expect(Number(csvRow[header.indexOf('transitionTime')])).toBe(shot.results.transitionTime);
+    expect(Number(csvRow[header.indexOf('railTemperature')])).toBe(shot.results.railTemperature);
+    expect(Number(csvRow[header.indexOf('energy.afterExit')])).toBe(shot.results.energy.afterExit);
+    expect(rows[1]!.transitionTime).toBe(shot.results.transitionTime);
+    // a scenario with none of the options: only the energy after exit
+    const plainHeader = studyLayout(loaded.scenario, ['armature.mass']).columns;
+    expect(plainHeader).toContain('energy.afterExit');
+    expect(plainHeader).not.toContain('transitionTime');
+    expect(plainHeader).not.toContain('energy.railInterior');
+    // shards merge into the same file
+    const shards = [1, 2].map((k) => choices(`shard${k}`, { shard: { index: k, count: 2 } }));
+    for (const shard of shards) await runSweep(shard, { jobs: 1, validate });
+    const merged = join(dir, 'merged');
+    merge(shards.map((shard) => shard.outDir), merged);
+    expect(read(merged, 'points.csv')).toBe(read(whole.outDir, 'points.csv'));
+  });
+});
