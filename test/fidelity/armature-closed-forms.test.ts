@@ -9,6 +9,18 @@ import { runShot } from '../../src/solve/shot.js';
 import type { Scenario } from '../../src/scenario/types.js';
 import { moduleGroup, scenario } from '../helpers/scenario.js';
 
+/** Coasting under a drag force k·v²: v(t) = v0/(1 + k·v0·t/m) from the sample k0 on, to 1e-7 of v0, at 50+ samples. */
+function expectCoasting(w: { t: ArrayLike<number>; velocity: ArrayLike<number> }, k0: number, k: number, mass: number): void {
+  const v0 = w.velocity[k0]!;
+  let compared = 0;
+  for (let j = k0 + 1; j < w.t.length; j += 97) {
+    const t = w.t[j]! - w.t[k0]!;
+    expect(Math.abs(w.velocity[j]! - v0 / (1 + (k * v0 * t) / mass)) / v0).toBeLessThan(1e-7);
+    compared++;
+  }
+  expect(compared).toBeGreaterThan(50);
+}
+
 /** Waveform value at the first sample at or after time t (an event instant is a sample). */
 const sampleAt = (t: number[], series: number[], time: number) => {
   const k = t.findIndex((s) => s >= time);
@@ -118,13 +130,7 @@ describe('drag coasting: v = v0/(1 + k v0 t/m), k = ½ρC_dA [derived: m dv/dt =
     while (w.t[k0 + 1] === w.t[k0]) k0++;
     const v0 = w.velocity[k0]!;
     const k = 0.5 * drag.gasDensity * drag.dragCoefficient * drag.boreArea;
-    let compared = 0;
-    for (let j = k0 + 1; j < w.t.length; j += 97) {
-      const t = w.t[j]! - w.t[k0]!;
-      expect(Math.abs(w.velocity[j]! - v0 / (1 + (k * v0 * t) / s.armature.mass)) / v0).toBeLessThan(1e-7);
-      compared++;
-    }
-    expect(compared).toBeGreaterThan(50);
+    expectCoasting(w, k0, k, s.armature.mass);
     // and drag has slowed it measurably
     expect(w.velocity[w.t.length - 1]! / v0).toBeLessThan(0.99);
   });
@@ -162,15 +168,8 @@ describe('strong-shock gas drag: pressure (γ+1)/2·ρ0·v² on the bore [publis
     const off = shot.events.find((e) => e.kind === 'turn-off')!.t;
     let k0 = w.t.findIndex((t) => t >= off);
     while (w.t[k0 + 1] === w.t[k0]) k0++;
-    const v0 = w.velocity[k0]!;
     const k = ((1.4 + 1) / 2) * 1.2 * 1e-4;
-    let compared = 0;
-    for (let j = k0 + 1; j < w.t.length; j += 97) {
-      const t = w.t[j]! - w.t[k0]!;
-      expect(Math.abs(w.velocity[j]! - v0 / (1 + (k * v0 * t) / s.armature.mass)) / v0).toBeLessThan(1e-7);
-      compared++;
-    }
-    expect(compared).toBeGreaterThan(50);
+    expectCoasting(w, k0, k, s.armature.mass);
     expect(shot.results.energy.losses.drag).toBeGreaterThan(0);
   });
 
