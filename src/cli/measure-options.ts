@@ -8,7 +8,7 @@ import { readMeasurementFile, readMeasurementHeader, readPositionPoints, type Me
 import type { FitNoise, FreeParameter, ResidualGroup } from '../measure/fit.js';
 import { InputError } from '../core/errors.js';
 import { dimensionOfPath, fieldAt, quantityPaths } from '../scenario/fields.js';
-import { getScenarioPath, parsePath } from '../scenario/paths.js';
+import { getScenarioPath, inertPathProblem, parsePath } from '../scenario/paths.js';
 import { didYouMean } from '../scenario/suggest.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, normaliseUnitText, QuantityError, toSI, type Dimension } from '../units/quantity.js';
@@ -143,6 +143,8 @@ export function parseFree(text: string, scenario: Scenario): FreeParameter {
   if (!steps) throw new InputError('--free', `"${path}" is not a scenario path (e.g. rails.inductanceGradient, bank[0].esr)`);
   const dimension = dimensionOfPath(path);
   const pattern = path.replace(/\[\d+\]/g, '[n]');
+  const inert = inertPathProblem(scenario, path);
+  if (inert) throw new InputError('--free', `${path} ${inert}`);
   if (path.startsWith('solver.')) throw new InputError('--free', `${path} is a solver setting, not a model parameter`);
   if (scenario.load && /^(rails|armature|friction|drag)\./.test(path)) {
     throw new InputError('--free', `${path} is a launch parameter, but the scenario fires into a shorted load (a ring-down); fit bank[n].inductance, bank[n].resistance, bank[n].esr, feed.inductance, feed.resistance or load.inductance, load.resistance`);

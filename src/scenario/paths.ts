@@ -124,3 +124,23 @@ export function setRawPath(raw: Record<string, unknown>, path: string, value: nu
   }
   node[steps[steps.length - 1]!] = value;
 }
+
+/**
+ * Why setting this number of a loaded scenario would not do what its name says, or null. Some values are turned
+ * into model inputs when the file is read (derived from geometry and materials, the rails' diffusion cells), and
+ * some are not read in every configuration; a sweep axis, a fitted parameter or a tolerance on them would change
+ * nothing, or something else than the user means. Studies, fits and uncertainty all ask this one function.
+ */
+export function inertPathProblem(scenario: Scenario, path: string): string | null {
+  if (path === 'rails.resistanceGradient' && scenario.rails?.diffusion) {
+    return 'follows current diffusion during the shot here (rails from geometry and material, rails.resistanceModel "diffusion"), and this number is only its uniform-current floor; for a constant R′ to vary, fit or give a tolerance on, set rails.resistanceModel to "quarter-period" or give rails.resistanceGradient as a number without a material';
+  }
+  if (/^(rails|armature)\.(derived|diffusion)\b/.test(path) || /^heating\b/.test(path)) {
+    return 'is derived from the geometry and materials when the file is read, not an input';
+  }
+  if (path === 'solver.diffusionRate') return "sets up the rails' diffusion cells when the file is read; write it in the scenario file";
+  if (path === 'drag.dragCoefficient' && scenario.drag?.model === 'strong-shock') {
+    return 'is not read by the strong-shock drag model (its pressure is (γ+1)/2·ρ0·v²: vary drag.heatCapacityRatio or drag.gasDensity)';
+  }
+  return null;
+}

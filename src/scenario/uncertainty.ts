@@ -27,7 +27,7 @@ import { InputError } from '../core/errors.js';
 import { symmetricEigen } from '../core/eigen.js';
 import { QuantityError, toSI } from '../units/quantity.js';
 import { fieldAt, quantityPaths } from './fields.js';
-import { getPath, parsePath, setPath } from './paths.js';
+import { getPath, inertPathProblem, parsePath, setPath } from './paths.js';
 import { didYouMean } from './suggest.js';
 import type { Calibration, Scenario, Tolerance, UncertainTarget } from './types.js';
 import { validateScenario } from './validate.js';
@@ -62,9 +62,11 @@ export function uncertainPathProblem(scenario: Scenario, path: string): string |
   const steps = parsePath(path);
   if (!steps) return 'expected a scenario path such as bank[0].capacitance or rails.inductanceGradient';
   const field = fieldAt(path);
+  const inert = inertPathProblem(scenario, path);
+  if (inert) return inert;
   if (path.startsWith('solver.')) return 'is a solver setting, not a model parameter';
   if (field?.kind === 'integer') return 'is a whole number (a module count); give tolerances on continuous values';
-  if (/\.geometry\./.test(path)) return 'is a geometry input, turned into the model values when the file is read; give the tolerance on rails.inductanceGradient, rails.resistanceGradient, armature.mass or armature.resistance';
+  if (/\.geometry\./.test(path)) return 'is a geometry input, turned into the model values when the file is read; give the tolerance on rails.inductanceGradient, rails.resistanceGradient (a constant R′), armature.mass or armature.resistance';
   if (path.endsWith('ratedReversal')) return 'is a rating for the checks and does not change the shot';
   if (field?.kind !== 'quantity') {
     const pattern = path.replace(/\[\d+\]/g, '[n]');

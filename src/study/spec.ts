@@ -11,7 +11,7 @@
 import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { DIMENSIONS, toSI, type Dimension } from '../units/quantity.js';
-import { closestPath, formatPath, getPath, listNumericPaths, parsePath, type PathStep } from '../scenario/paths.js';
+import { closestPath, formatPath, getPath, inertPathProblem, listNumericPaths, parsePath, type PathStep } from '../scenario/paths.js';
 import { largest, smallest } from '../core/extrema.js';
 
 export type AxisKind = 'list' | 'linear' | 'log';
@@ -92,6 +92,8 @@ function checkPath(path: string, scenario: Scenario): PathStep[] {
     const suggestion = closestPath(path, listNumericPaths(scenario));
     fail(`${path} is not a number in the scenario${suggestion ? ` (did you mean ${suggestion}?)` : ''}`);
   }
+  const inert = inertPathProblem(scenario, path);
+  if (inert) fail(`${path} ${inert}`);
   return steps;
 }
 

@@ -1,0 +1,53 @@
+/**
+ * Values a loaded scenario does not read as written (derived at load, or unused by the chosen model) cannot be
+ * swept, fitted or given a tolerance: each entry point refuses them with one line naming the path, exit 2.
+ */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { loadScenarioFile } from '../../src/scenario/load.js';
+import { inertPathProblem } from '../../src/scenario/paths.js';
+import { railpulse } from '../measure/cli-fixture.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'railpulse-inert-'));
+const geometry = JSON.parse(readFileSync('scenarios/geometry-shot.json', 'utf8')) as Record<string, unknown>;
+delete geometry.$schema;
+
+function write(name: string, scenario: unknown): string {
+  const file = join(dir, name);
+  writeFileSync(file, JSON.stringify(scenario));
+  return file;
+}
+
+describe('paths a study, a fit or a tolerance may not move', () => {
+  it('R′ under current diffusion is only the floor; with a constant R′ it is an input', () => {
+    const diffusing = loadScenarioFile('scenarios/geometry-shot.json').scenario;
+    expect(inertPathProblem(diffusing, 'rails.resistanceGradient')).toMatch(/uniform-current floor/);
+    const constant = loadScenarioFile(write('quarter.json', { ...geometry, rails: { ...(geometry.rails as object), resistanceModel: 'quarter-period' } })).scenario;
+    expect(inertPathProblem(constant, 'rails.resistanceGradient')).toBeNull();
+    expect(inertPathProblem(diffusing, 'rails.inductanceGradient')).toBeNull();
+    expect(inertPathProblem(diffusing, 'solver.diffusionRate')).toMatch(/when the file is read/);
+  });
+
+  it('the strong-shock drag model does not read a drag coefficient', () => {
+    const shock = loadScenarioFile(write('shock.json', { ...geometry, drag: { model: 'strong-shock', gasDensity: '1.2 kg/m^3', boreArea: '1.5 cm^2' } })).scenario;
+    expect(inertPathProblem(shock, 'drag.dragCoefficient')).toMatch(/not read by the strong-shock/);
+    expect(inertPathProblem(shock, 'drag.gasDensity')).toBeNull();
+  });
+
+  it('sweep, fit and a tolerance refuse R′ under diffusion with one line and exit 2', () => {
+    const sweep = railpulse(['sweep', 'scenarios/geometry-shot.json', '--vary', 'rails.resistanceGradient=0.3mohm/m,0.5mohm/m', '--out', join(dir, 'study')]);
+    expect(sweep.status).toBe(2);
+    expect(sweep.stderr.trim().split('\n')).toHaveLength(1);
+    expect(sweep.stderr).toMatch(/--vary: rails\.resistanceGradient follows current diffusion/);
+    const fit = railpulse(['fit', 'scenarios/geometry-shot.json', join(dir, 'none.csv'), '--free', 'rails.resistanceGradient']);
+    expect(fit.status).toBe(2);
+    expect(fit.stderr).toMatch(/--free: rails\.resistanceGradient follows current diffusion/);
+    const tolerance = write('tolerance.json', { ...geometry, tolerances: [{ path: 'rails.resistanceGradient', normal: '5 %' }] });
+    const run = railpulse(['run', tolerance, '--json', '--no-report']);
+    expect(run.status).toBe(2);
+    expect(run.stderr.trim().split('\n')).toHaveLength(1);
+    expect(run.stderr).toMatch(/rails\.resistanceGradient.*uniform-current floor/);
+  });
+});
