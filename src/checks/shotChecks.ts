@@ -58,8 +58,8 @@ export function railsDerivedJson(scenario: Scenario, shot?: Shot) {
   const diffusion = scenario.rails.diffusion;
   const railAction = shot?.railAction ?? 0;
   return {
-    /** how R′ followed the shot: current diffusion in each rail section, or constant */
-    resistanceModel: diffusion ? ('diffusion' as const) : ('constant' as const),
+    /** where R′ came from: current diffusion in each rail section, the quarter-period constant, a given number, or none */
+    resistanceModel: scenario.rails.resistanceSource ?? (diffusion ? ('diffusion' as const) : ('given' as const)),
     /** the rails' loss over ∫x I² dt: the constant loop R′ that would have lost as much (Ω/m) */
     resistanceGradientLossEquivalent: shot && railAction > 0 ? shot.results.energy.losses.rails / railAction : null,
     /** diffusion: width of the high-frequency current sheet of one rail and the slab's depth (m), the cells integrated */
@@ -67,7 +67,8 @@ export function railsDerivedJson(scenario: Scenario, shot?: Shot) {
     inductanceGradient: scenario.rails.inductanceGradient,
     inductanceGradientHighFrequency: derived.inductanceGradientHighFrequency,
     inductanceGradientUniform: derived.inductanceGradientUniform,
-    resistanceGradient: scenario.rails.resistanceGradient,
+    /** the constant loop R′ the shot used (Ω/m); with current diffusion there is none: see resistanceGradientLossEquivalent */
+    resistanceGradient: diffusion ? null : scenario.rails.resistanceGradient,
     estimatedRelativeError: derived.estimatedRelativeError,
     resistanceGradientDC: derived.resistanceGradientDC,
     penetrationDepth: derived.penetrationDepth,

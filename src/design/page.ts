@@ -91,7 +91,7 @@ ${jsonScriptElement('railpulse-design', { file: loaded.file, source: loaded.sour
 </div>
 </div>
 ${safetyProcedures([bank])}
-<footer>Design page produced by railpulse ${escapeHtml(TOOL_VERSION)}. Model results, not measurements. Plots by plotly.js (MIT licence), inlined.</footer>
+<footer>Design page produced by railpulse ${escapeHtml(TOOL_VERSION)}. Model results, not measurements. Plots drawn on canvases by the page itself; plotly.js (MIT licence) is carried inline for the saved record.</footer>
 </main>
 <script>${appSource}</script>
 <script type="text/plain" id="railpulse-plotly">${plotlySource}</script>

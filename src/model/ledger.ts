@@ -83,12 +83,15 @@ function diffusionLoss(plant: Plant, y: ArrayLike<number>, x: number, current: n
   return 0.5 * plant.tailInductanceGradient * velocity * current * current + cells * railHeatFactor(plant, y, x);
 }
 
-/** Magnetic energy inside the rails held by the diffusion cells, Σ ½ L′_n B_n. */
+/**
+ * Magnetic energy inside the rails held by the integrated diffusion cells, Σ ½ L′_n B_n. B_n = ∫ i_L² dξ is never
+ * negative in exact arithmetic; a state that the integrator leaves a hair below zero counts as zero.
+ */
 export function railInteriorEnergy(plant: Plant, y: ArrayLike<number>): number {
   const modes = plant.modeRate.length;
   const first = plant.index.position + 2;
   let energy = 0;
-  for (let n = 0; n < modes; n++) energy += (0.5 * plant.modeResistance[n]! * y[first + modes + n]!) / plant.modeRate[n]!;
+  for (let n = 0; n < modes; n++) energy += (0.5 * plant.modeResistance[n]! * Math.max(0, y[first + modes + n]!)) / plant.modeRate[n]!;
   return energy;
 }
 
@@ -116,8 +119,11 @@ export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLik
     moduleMagnetic += 0.5 * plant.inductance[g]! * i * i;
     current += i;
   }
-  const loopInductance = plant.feedInductance + plant.loadInductance + plant.circuitGradient * y[ix.position]!;
-  const magneticRails = 0.5 * loopInductance * current * current;
+  // ½L(x)I² with L(x) = L_f + L′x, the field in the feed and between the rails; the diffusion cells held as
+  // inductance (the tail, inside the conductor) count with the cells' energy inside the rails
+  const x = y[ix.position]!;
+  const tail = 0.5 * plant.tailInductanceGradient * x * current * current;
+  const magneticRails = 0.5 * (plant.feedInductance + plant.loadInductance + (plant.circuitGradient - plant.tailInductanceGradient) * x) * current * current;
   const velocity = y[ix.velocity]!;
   const kinetic = 0.5 * plant.mass * velocity * velocity;
   const losses: number[] = [];
@@ -127,7 +133,7 @@ export function ledger(plant: Plant, y: ArrayLike<number>, quadratures: ArrayLik
     losses.push(w);
     lossSum += w;
   }
-  const railInterior = plant.modeRate.length > 0 ? railInteriorEnergy(plant, y) : 0;
+  const railInterior = (plant.modeRate.length > 0 ? railInteriorEnergy(plant, y) : 0) + tail;
   const magnetic = moduleMagnetic + magneticRails + railInterior;
   return {
     capacitors,

@@ -55,6 +55,8 @@ export function siUnitOfPath(path: string): string {
   if (limit && limit in LIMIT_DIMENSIONS) return LIMIT_DIMENSIONS[limit as keyof EngineeringLimits].display;
   const diffusion = /^rails\.diffusion\.(?:modes\[\d+\]\.)?([A-Za-z]+)$/.exec(path)?.[1];
   if (diffusion && diffusion in DIFFUSION_UNITS) return DIFFUSION_UNITS[diffusion]!;
+  // the transition threshold the loader derives, specificAction × contactArea²
+  if (path === 'armature.transition.action') return 'A\u00B2\u00B7s';
   const heating = /^heating\.([A-Za-z]+)$/.exec(path)?.[1];
   if (heating) return heating.endsWith('Alpha') ? '1/K' : '1/(A\u00B2\u00B7s)';
   const derived = /\.derived\.([A-Za-z]+)$/.exec(path)?.[1];

@@ -157,8 +157,12 @@ function derive(scenario: Scenario, read: Read, raw: Read): void {
       const diffusion = railDiffusionOf(geometry.height * geometry.width, width, scenario.rails.material!.resistivity, (scenario.solver.diffusionRate ?? FASTEST_RATE_TIMES_TAU) / time, 'rails');
       scenario.rails.diffusion = diffusion;
       scenario.rails.resistanceGradient = diffusion.resistanceGradientDC;
+      scenario.rails.resistanceSource = 'diffusion';
     } else if (rails.resistanceGradient === undefined && derived.resistanceGradient !== null) {
       scenario.rails.resistanceGradient = derived.resistanceGradient;
+      scenario.rails.resistanceSource = 'quarter-period';
+    } else {
+      scenario.rails.resistanceSource = rails.resistanceGradient === undefined ? 'none' : 'given';
     }
   } else if (rails.inductanceModel !== undefined) {
     throw new InputError('rails.inductanceModel', 'only applies with rails.geometry');

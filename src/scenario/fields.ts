@@ -4,6 +4,7 @@
  */
 import { DIMENSIONS, type Dimension } from '../units/quantity.js';
 import { parsePath } from './paths.js';
+import { FASTEST_RATE_TIMES_TAU } from '../conductors/diffusion.js';
 
 /**
  * The plausible range of a quantity (SI): what the tool accepts. Wide enough for any bench or laboratory
@@ -227,7 +228,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
     fields: {
       gasDensity: q(D.density, within(0, 1e4), 'gas density in the bore', { required: true }),
       dragCoefficient: q(D.dimensionless, within(0, 100), 'drag coefficient C_d of ½ρC_dA v² (required unless model is "strong-shock")', { noun: 'a drag coefficient' }),
-      model: { kind: 'text', maxLength: 40, description: 'how the gas ahead resists: "coefficient" (default: ½ρC_dA v²) or "strong-shock" (the armature drives a strong shock into the gas column: pressure (γ+1)/2·ρ0·v², Rankine–Hugoniot strong-shock limit)' },
+      model: { kind: 'text', maxLength: 40, description: 'how the gas ahead resists: "coefficient" (default: ½ρC_dA v²) or "strong-shock" (the armature drives a strong shock into the gas column: pressure (γ+1)/2·ρ0·v², Rankine–Hugoniot strong-shock limit, valid for speeds well above the gas\'s sound speed; the ambient pressure ahead is neglected, so it reads low near Mach 1)' },
       heatCapacityRatio: q(D.dimensionless, within(1, 3), 'ratio of specific heats γ of the gas ahead (strong-shock model; default 1.4, air)', { noun: 'a ratio of specific heats' }),
       boreArea: q(D.area, within(0, 100), 'bore cross-section A_b', { required: true }),
     },
@@ -284,7 +285,7 @@ export const SCENARIO_FIELDS: Record<string, Field> = {
       sampleInterval: q(D.time, TIME, 'waveform sample interval (default 1 µs, or endTime / 2,000,000 when that is longer; 0 = event samples only)'),
       currentFloor: q(D.current, positive(1e6), 'stall current floor per module', { default: 1 }),
       maxSteps: { kind: 'integer', range: within(1, 100_000_000), default: 1_000_000, description: 'bound on accepted integration steps for the whole shot' },
-      diffusionRate: q(D.dimensionless, within(0.5, 1000), "rail current diffusion (rails.resistanceModel \"diffusion\"): the fastest cell integrated, λ·τ with τ the bank's quarter period; faster cells are held as inductance. Higher is more accurate for ringing currents and slower (default 2)", { default: 2, noun: 'a rate in units of 1/τ' }),
+      diffusionRate: q(D.dimensionless, within(0.5, 1000), `rail current diffusion (rails.resistanceModel \"diffusion\"): the fastest cell integrated, λ·τ with τ the bank's quarter period; faster cells are held as inductance. Higher is more accurate for ringing currents and slower (default ${FASTEST_RATE_TIMES_TAU})`, { default: FASTEST_RATE_TIMES_TAU, noun: 'a rate in units of 1/τ' }),
     },
   },
 };

@@ -73,6 +73,11 @@ export interface Rails {
    * R′): the model adds its cells to resistanceGradient, which then holds the DC value 2ρ/(h w)
    */
   diffusion?: RailDiffusion;
+  /**
+   * with rails from geometry, where R′ came from: current diffusion during the shot, the constant at the bank's
+   * quarter period, a number the file gave, or none (no material and no number: R′ = 0)
+   */
+  resistanceSource?: 'diffusion' | 'quarter-period' | 'given' | 'none';
 }
 
 /**

@@ -491,7 +491,7 @@ function finish(
         capacitors: e.capacitors,
         magnetic: e.magnetic,
         magneticRails: e.magneticRails,
-        ...(plant.modeRate.length > 0 ? { railInterior: e.railInterior } : {}),
+        ...(plant.modeRate.length > 0 || plant.tailInductanceGradient > 0 ? { railInterior: e.railInterior } : {}),
         kinetic: e.kinetic,
         losses,
         residual: e.residual,

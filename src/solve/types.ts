@@ -27,7 +27,10 @@ export interface EnergyBudget {
   magnetic: number;
   /** ½ L(x) I², the part of the magnetic energy held by the feed and rails */
   magneticRails: number;
-  /** Σ ½ L′_n B_n, magnetic energy inside the rails held by the current-diffusion cells (only with rail diffusion) */
+  /**
+   * magnetic energy inside the rails' conductor, only with rail current diffusion: Σ ½ L′_n B_n of the integrated
+   * cells plus ½ L′_tail x I² of the fast cells held as inductance
+   */
   railInterior?: number;
   kinetic: number;
   losses: Losses;

@@ -26,6 +26,7 @@ describe('input table rows', () => {
   it('material properties, limits and derived figures carry their units', () => {
     expect(siUnitOfPath('rails.material.resistivity')).toBe('\u03A9\u00B7m');
     expect(siUnitOfPath('armature.material.specificHeat')).toBe('J/(kg\u00B7K)');
+    expect(siUnitOfPath('armature.transition.action')).toBe('A\u00B2\u00B7s');
     expect(siUnitOfPath('materials.myAlloy.density')).toBe('kg/m\u00B3');
     expect(siUnitOfPath('rails.material.meltingTemperature')).toBe('\u00B0C');
     expect(siUnitOfPath('limits.peakAcceleration')).toBe('m/s\u00B2');

@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadScenarioFile } from '../../src/scenario/load.js';
 import { inertPathProblem } from '../../src/scenario/paths.js';
+import { railsDerivedJson } from '../../src/checks/shotChecks.js';
 import { railpulse } from '../measure/cli-fixture.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'railpulse-inert-'));
@@ -49,5 +50,20 @@ describe('paths a study, a fit or a tolerance may not move', () => {
     expect(run.status).toBe(2);
     expect(run.stderr.trim().split('\n')).toHaveLength(1);
     expect(run.stderr).toMatch(/rails\.resistanceGradient.*uniform-current floor/);
+  });
+
+  it('railsDerived says where R′ came from: diffusion, the quarter-period constant, a given number, or none', () => {
+    const rails = geometry.rails as Record<string, unknown>;
+    const model = (extra: Record<string, unknown>, drop: string[] = []) => {
+      const r = { ...rails, ...extra };
+      for (const key of drop) delete r[key];
+      return railsDerivedJson(loadScenarioFile(write(`r${Object.keys(extra).join('-')}${drop.join('-')}.json`, { ...geometry, rails: r })).scenario)!;
+    };
+    expect(model({})).toMatchObject({ resistanceModel: 'diffusion', resistanceGradient: null });
+    const quarter = model({ resistanceModel: 'quarter-period' });
+    expect(quarter.resistanceModel).toBe('quarter-period');
+    expect(quarter.resistanceGradient).toBeGreaterThan(quarter.resistanceGradientDC!);
+    expect(model({ resistanceGradient: '0.4 mohm/m' })).toMatchObject({ resistanceModel: 'given', resistanceGradient: 0.0004 });
+    expect(model({}, ['material'])).toMatchObject({ resistanceModel: 'none', resistanceGradient: 0 });
   });
 });
