@@ -4,23 +4,16 @@
  * it (quantities with units); every change reloads it through the CLI's loader, so a bad entry gets the CLI's
  * message.
  */
-import { assessShot } from '../checks/assess.js';
-import type { ShotProvenance } from '../output/provenance.js';
+import type { RunEnvironment } from '../output/provenance.js';
 import { shotRecordInput } from '../pipeline/recordInput.js';
-import { resultsJson, type AssessedShot } from '../pipeline/shoot.js';
+import { resultsJson, shoot, type AssessedShot } from '../pipeline/shoot.js';
 import { buildShotRecord } from '../report/shot-record.js';
 import { loadScenarioText, type LoadedScenario } from '../scenario/load.js';
 import { runShot } from '../solve/shot.js';
-import type { Shot } from '../solve/types.js';
 import { recordUncertainty, shotUncertainty } from '../study/shotUncertainty.js';
-import { TOOL_VERSION } from '../version.js';
 
 /** Where the page runs, in the provenance's `nodeVersion` slot (a page has no Node: it names the browser). */
-export interface PageEnvironment {
-  runtime: string;
-  /** ISO 8601 */
-  date: string;
-}
+export type PageEnvironment = RunEnvironment;
 
 /** The text Save scenario writes: the object as two-space JSON with a final newline (what `run` then reads). */
 export function scenarioText(raw: Record<string, unknown>): string {
@@ -32,22 +25,9 @@ export function loadDesign(raw: Record<string, unknown>, file: string): LoadedSc
   return loadScenarioText(scenarioText(raw), file);
 }
 
-function provenance(shot: Shot, sha256: string, environment: PageEnvironment): ShotProvenance {
-  return {
-    toolVersion: TOOL_VERSION,
-    nodeVersion: environment.runtime,
-    date: environment.date,
-    scenarioSha256: sha256,
-    relTol: shot.stats.relTol,
-    steps: shot.stats.steps,
-    rhsEvaluations: shot.stats.rhsEvaluations,
-  };
-}
-
-/** One shot of a loaded scenario, as `run` computes it (same code: `shoot` in the pipeline). */
+/** One shot of a loaded scenario, as `run` computes it: the pipeline's `shoot`, stamped with the page's browser. */
 export function designShot(loaded: LoadedScenario, environment: PageEnvironment): AssessedShot {
-  const shot = runShot(loaded.scenario, { waveforms: true });
-  return { loaded, scenario: loaded.scenario, shot, assessment: assessShot(loaded.scenario, shot), provenance: provenance(shot, loaded.sha256, environment) };
+  return shoot(loaded, { environment });
 }
 
 /** The results object of `run --json`. */

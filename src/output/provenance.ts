@@ -22,11 +22,18 @@ export function reportDate(): string {
   return new Date().toISOString();
 }
 
-export function provenanceOf(shot: Shot, scenarioSha256: string): ShotProvenance {
+/** Where a shot ran, for its provenance: a runtime name in the `nodeVersion` slot and an ISO 8601 date. */
+export interface RunEnvironment {
+  runtime: string;
+  date: string;
+}
+
+/** The provenance of a shot; `environment` defaults to this Node process and now (the design page names its browser). */
+export function provenanceOf(shot: Shot, scenarioSha256: string, environment?: RunEnvironment): ShotProvenance {
   return {
     toolVersion: TOOL_VERSION,
-    nodeVersion: process.version,
-    date: reportDate(),
+    nodeVersion: environment ? environment.runtime : process.version,
+    date: environment ? environment.date : reportDate(),
     scenarioSha256,
     relTol: shot.stats.relTol,
     steps: shot.stats.steps,

@@ -3,7 +3,7 @@
  * stamp its provenance, once. Every command that shows or files a shot reads this one value.
  */
 import { assessShot, type Assessment } from '../checks/assess.js';
-import { provenanceOf, type ShotProvenance } from '../output/provenance.js';
+import { provenanceOf, type RunEnvironment, type ShotProvenance } from '../output/provenance.js';
 import type { LoadedScenario } from '../scenario/load.js';
 import type { Scenario } from '../scenario/types.js';
 import { runShot } from '../solve/shot.js';
@@ -25,6 +25,8 @@ export interface ShootOptions {
   scenario?: Scenario;
   /** record waveforms (default true); figures and checks do not need them */
   waveforms?: boolean;
+  /** where the shot runs, for its provenance (default: this Node process, now) */
+  environment?: RunEnvironment;
 }
 
 /** Run `work`; a problem it reports without a file (a solver failure) is attributed to the scenario file. */
@@ -40,7 +42,7 @@ export function inFile<T>(file: string, work: () => T): T {
 export function shoot(loaded: LoadedScenario, options: ShootOptions = {}): AssessedShot {
   const scenario = options.scenario ?? loaded.scenario;
   const shot = inFile(loaded.file, () => runShot(scenario, { waveforms: options.waveforms ?? true }));
-  return { loaded, scenario, shot, assessment: assessShot(scenario, shot), provenance: provenanceOf(shot, loaded.sha256) };
+  return { loaded, scenario, shot, assessment: assessShot(scenario, shot), provenance: provenanceOf(shot, loaded.sha256, options.environment) };
 }
 
 /**
