@@ -3,6 +3,7 @@
  * table knows, in the sections the scenario has, with the text written in the file. Pure: no DOM.
  */
 import { SCENARIO_FIELDS, type Field } from '../scenario/fields.js';
+import { setRawPath } from '../scenario/paths.js';
 
 export interface NumericControl {
   /** scenario path, as the loader's messages name it: "bank[1].trigger" */
@@ -60,17 +61,7 @@ export function controlGroups(raw: Record<string, unknown>): ControlGroup[] {
 /** A copy of the object with the value at a control's path replaced (undefined removes the key; a missing section is made). */
 export function withValue(raw: Record<string, unknown>, path: string, value: unknown): Record<string, unknown> {
   const copy = structuredClone(raw);
-  const parts = path.match(/[^.[\]]+/g) ?? [];
-  let node: Record<string, unknown> | unknown[] = copy;
-  for (const part of parts.slice(0, -1)) {
-    const parent = node as Record<string, unknown>;
-    if (parent[part] === undefined && value !== undefined) parent[part] = {};
-    node = parent[part] as Record<string, unknown>;
-    if (node === undefined) return copy;
-  }
-  const last = parts[parts.length - 1]!;
-  if (value === undefined) delete (node as Record<string, unknown>)[last];
-  else (node as Record<string, unknown>)[last] = value;
+  setRawPath(copy, path, value);
   return copy;
 }
 

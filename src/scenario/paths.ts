@@ -107,8 +107,8 @@ export function setScenarioPath(scenario: Scenario, path: string, value: number)
 
 type RawNode = Record<string | number, unknown>;
 
-/** Set `value` at a scenario path in a parsed JSON object, creating missing (or null) sections. */
-export function setRawPath(raw: Record<string, unknown>, path: string, value: number): void {
+/** Set `value` at a scenario path in a parsed JSON object, creating missing (or null) sections; undefined removes the key. */
+export function setRawPath(raw: Record<string, unknown>, path: string, value: unknown): void {
   const steps = parsePath(path);
   if (!steps) throw new RangeError(`not a scenario path: ${path}`);
   let node: RawNode = raw;
@@ -116,13 +116,16 @@ export function setRawPath(raw: Record<string, unknown>, path: string, value: nu
     const step = steps[k]!;
     const next = node[step];
     if (typeof next !== 'object' || next === null) {
+      if (value === undefined) return; // nothing to remove
       // only sections can be missing: list items (bank[n]) exist, or the fit could not have read them
       if (typeof step === 'number' || typeof steps[k + 1] === 'number') throw new RangeError(`no list item at ${path}`);
       node[step] = {};
     }
     node = node[step] as RawNode;
   }
-  node[steps[steps.length - 1]!] = value;
+  const last = steps[steps.length - 1]!;
+  if (value === undefined) delete node[last];
+  else node[last] = value;
 }
 
 /**
