@@ -59,9 +59,9 @@ function pointUncertainty(scenario: Scenario, shot: Shot, runShot: RunShot): Hea
 }
 
 /** Why a point's scenario is not valid, or null; anything but a user-facing problem is a bug and propagates. */
-function validationProblem(scenario: Scenario): string | null {
+export function validationProblem(scenario: Scenario, validate: (scenario: Scenario) => void = validateScenario): string | null {
   try {
-    validateScenario(scenario);
+    validate(scenario);
     return null;
   } catch (error) {
     if (error instanceof InputError) return error.message;

@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { InputError, withFileProblems } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
-import type { BatchContext, BatchRequest, BatchResult } from './batch.js';
+import { validationProblem, type BatchContext, type BatchRequest, type BatchResult } from './batch.js';
 import type { Design } from './design.js';
 import {
   CSV_FILE,
@@ -188,13 +188,7 @@ function batchMaker(plan: SweepPlan, positions: { first: number; step: number },
 
 function checkPoint(probe: Scenario, steps: Parameters<typeof setPath>[1][], point: number[], validate: (scenario: Scenario) => void): string | null {
   steps.forEach((step, d) => setPath(probe, step, point[d]!));
-  try {
-    validate(probe);
-    return null;
-  } catch (error) {
-    if (error instanceof InputError) return error.message;
-    throw error;
-  }
+  return validationProblem(probe, validate);
 }
 
 /** Whether the output folder holds a study with the same identity and shard as this one. */
