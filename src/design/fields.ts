@@ -25,11 +25,22 @@ function isObject(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
 }
 
+/**
+ * Keys a section's chosen model does not read, so a control for them could only be refused by the loader: the
+ * strong-shock drag law has no drag coefficient, and γ belongs to it alone.
+ */
+function notApplicable(path: string, written: Record<string, unknown>): Set<string> {
+  if (path !== 'drag') return new Set();
+  return new Set([written.model === 'strong-shock' ? 'dragCoefficient' : 'heatCapacityRatio']);
+}
+
 /** Every numeric field of one section (and of the sub-sections the scenario writes), depth first. */
 function sectionGroups(path: string, fields: Record<string, Field>, written: Record<string, unknown>, out: ControlGroup[]): void {
   const group: ControlGroup = { path, controls: [] };
   out.push(group);
+  const skipped = notApplicable(path, written);
   for (const [key, field] of Object.entries(fields)) {
+    if (skipped.has(key)) continue;
     const where = `${path}.${key}`;
     if (field.kind === 'quantity' || field.kind === 'integer') group.controls.push({ path: where, key, field, written: written[key] });
     else if (field.kind === 'section' && isObject(written[key])) sectionGroups(where, field.fields, written[key] as Record<string, unknown>, out);

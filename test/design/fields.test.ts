@@ -17,10 +17,20 @@ describe('design page controls (from the field table)', () => {
     // every quantity path of the field table in those sections (bank[n] → each group) has its control
     const expected = quantityPaths()
       .flatMap((path) => (path.startsWith('bank[n]') ? [0, 1, 2, 3].map((n) => path.replace('[n]', `[${n}]`)) : [path]))
-      .filter((path) => groups.some((g) => path.startsWith(`${g.path}.`) && !path.slice(g.path.length + 1).includes('.')));
+      .filter((path) => groups.some((g) => path.startsWith(`${g.path}.`) && !path.slice(g.path.length + 1).includes('.')))
+      // γ belongs to the strong-shock drag law; the demo's drag is ½ρC_dA v²
+      .filter((path) => path !== 'drag.heatCapacityRatio');
     expect(paths.sort()).toEqual(expected.sort());
     const voltage = groups[0]!.controls.find((c) => c.key === 'voltage')!;
     expect(voltage.written).toBe('10 kV');
+  });
+
+  it('offers no control the section\'s model does not read: the strong-shock drag law has γ and no drag coefficient', () => {
+    const shock = { ...demo, drag: { model: 'strong-shock', gasDensity: '1.2 kg/m^3', boreArea: '1 cm^2' } };
+    const drag = controlGroups(shock).find((g) => g.path === 'drag')!;
+    expect(drag.controls.map((c) => c.key).sort()).toEqual(['boreArea', 'gasDensity', 'heatCapacityRatio']);
+    const coefficient = controlGroups(demo).find((g) => g.path === 'drag')!;
+    expect(coefficient.controls.map((c) => c.key).sort()).toEqual(['boreArea', 'dragCoefficient', 'gasDensity']);
   });
 
   it('writes an entry where the file has it: a plain number stays a number, text stays text, blank removes the key', () => {
