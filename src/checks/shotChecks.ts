@@ -67,8 +67,11 @@ export function railsDerivedJson(scenario: Scenario, shot?: Shot) {
     inductanceGradient: scenario.rails.inductanceGradient,
     inductanceGradientHighFrequency: derived.inductanceGradientHighFrequency,
     inductanceGradientUniform: derived.inductanceGradientUniform,
-    /** the constant loop R′ the shot used (Ω/m); with current diffusion there is none: see resistanceGradientLossEquivalent */
-    resistanceGradient: diffusion ? null : scenario.rails.resistanceGradient,
+    /**
+     * the loop R′ of the shot (Ω/m): the constant it used, or with current diffusion (no single constant) the
+     * loss-equivalent value, null before a shot
+     */
+    resistanceGradient: diffusion ? (shot && railAction > 0 ? shot.results.energy.losses.rails / railAction : null) : scenario.rails.resistanceGradient,
     estimatedRelativeError: derived.estimatedRelativeError,
     resistanceGradientDC: derived.resistanceGradientDC,
     penetrationDepth: derived.penetrationDepth,

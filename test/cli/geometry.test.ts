@@ -32,7 +32,7 @@ describe('a scenario given only by geometry and materials', () => {
     // R′ follows current diffusion (no single constant), and its loss-equivalent value never drops below the
     // uniform-current floor ρ/(h w) per rail
     expect(derived.resistanceModel).toBe('diffusion');
-    expect(derived.resistanceGradient).toBeNull();
+    expect(derived.resistanceGradient).toBe(derived.resistanceGradientLossEquivalent);
     expect(derived.resistanceGradientLossEquivalent).toBeGreaterThanOrEqual(derived.resistanceGradientDC);
     const ids = out.checks.map((c: { id: string }) => c.id);
     expect(ids).toEqual(expect.arrayContaining(['armature-action', 'rail-heating', 'linear-current-density', 'contact-force', 'rail-separating-force', 'peak-acceleration']));

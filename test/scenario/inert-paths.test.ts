@@ -59,6 +59,7 @@ describe('paths a study, a fit or a tolerance may not move', () => {
       for (const key of drop) delete r[key];
       return railsDerivedJson(loadScenarioFile(write(`r${Object.keys(extra).join('-')}${drop.join('-')}.json`, { ...geometry, rails: r })).scenario)!;
     };
+    // before a shot there is no loss-equivalent R′ under diffusion
     expect(model({})).toMatchObject({ resistanceModel: 'diffusion', resistanceGradient: null });
     const quarter = model({ resistanceModel: 'quarter-period' });
     expect(quarter.resistanceModel).toBe('quarter-period');
