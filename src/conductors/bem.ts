@@ -32,10 +32,11 @@ export function panelLogIntegral(px: number, py: number, panel: Panel): number {
   const dx = panel.x1 - panel.x0;
   const dy = panel.y1 - panel.y0;
   const length = Math.hypot(dx, dy);
-  const tx = dx / length;
-  const ty = dy / length;
-  const rx = px - panel.x0;
-  const ry = py - panel.y0;
+  return logIntegral(px - panel.x0, py - panel.y0, dx / length, dy / length, length);
+}
+
+/** The same integral from P's offset (rx, ry) to the panel's start, the panel's unit tangent and its length. */
+function logIntegral(rx: number, ry: number, tx: number, ty: number, length: number): number {
   const u = rx * tx + ry * ty;
   const h = Math.abs(rx * ty - ry * tx);
   return antiderivative(length - u, h) - antiderivative(-u, h);
@@ -85,16 +86,34 @@ export function equivalentCurrentWidth(panels: readonly Panel[]): number {
 /** The panel charges q_j (per unit length, up to a common factor) of the upper-right quarter. */
 function panelCharges(panels: readonly Panel[]): Float64Array {
   const n = panels.length;
+  // each source panel's start, unit tangent and length, computed once (as panelLogIntegral computes them)
+  const x0 = new Float64Array(n);
+  const y0 = new Float64Array(n);
+  const tx = new Float64Array(n);
+  const ty = new Float64Array(n);
+  const length = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    const p = panels[j]!;
+    const dx = p.x1 - p.x0;
+    const dy = p.y1 - p.y0;
+    const l = Math.hypot(dx, dy);
+    x0[j] = p.x0;
+    y0[j] = p.y0;
+    tx[j] = dx / l;
+    ty[j] = dy / l;
+    length[j] = l;
+  }
+  /** panelLogIntegral(px, py, panels[j]) on the precomputed panel */
+  const integral = (px: number, py: number, j: number): number => logIntegral(px - x0[j]!, py - y0[j]!, tx[j]!, ty[j]!, length[j]!);
   const matrix = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
     const p = panels[i]!;
     const cx = 0.5 * (p.x0 + p.x1);
     const cy = 0.5 * (p.y0 + p.y1);
     for (let j = 0; j < n; j++) {
-      const source = panels[j]!;
       // Images are applied to the collocation point instead of the source panel: same integral.
-      const direct = panelLogIntegral(cx, cy, source) + panelLogIntegral(cx, -cy, source);
-      const opposite = panelLogIntegral(-cx, cy, source) + panelLogIntegral(-cx, -cy, source);
+      const direct = integral(cx, cy, j) + integral(cx, -cy, j);
+      const opposite = integral(-cx, cy, j) + integral(-cx, -cy, j);
       matrix[i * n + j] = opposite - direct;
     }
   }

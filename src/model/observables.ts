@@ -21,11 +21,32 @@ export interface Observables {
   force: number;
 }
 
-/**
- * Observables of a state in a mode. Called at every sample point, event side and root-finding iterate, so it
- * solves the bus equation into a scratch object and allocates only its result.
- */
+/** An Observables to fill with observeInto, sized for the plant's groups. */
+export function emptyObservables(groups: number): Observables {
+  return {
+    current: 0,
+    currentRate: 0,
+    groupCurrent: new Array<number>(groups).fill(0),
+    groupRate: new Array<number>(groups).fill(0),
+    acceleration: 0,
+    accelerationRate: 0,
+    breechVoltage: 0,
+    breechVoltageRate: 0,
+    muzzleVoltage: 0,
+    force: 0,
+  };
+}
+
+/** Observables of a state in a mode, as a new object. */
 export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observables {
+  return observeInto(plant, y, mode, emptyObservables(plant.groups));
+}
+
+/**
+ * Observables of a state in a mode, written into `out` (made by emptyObservables) and returned. The solver calls
+ * it at every sample point, event side and root-finding iterate with objects it reuses, so it allocates nothing.
+ */
+export function observeInto(plant: Plant, y: ArrayLike<number>, mode: Mode, out: Observables): Observables {
   const groups = plant.groups;
   const lp = plant.inductanceGradient;
   const v = mode.moving ? y[2 * groups + 1]! : 0;
@@ -34,8 +55,8 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
   // the circuit's gradient: L′ plus the rails' fast diffusion cells held as inductance (L′ without diffusion)
   const lc = plant.circuitGradient;
   const loadResistance = bus.loopResistance + lc * v;
-  const groupCurrent = new Array<number>(groups);
-  const groupRate = new Array<number>(groups);
+  const groupCurrent = out.groupCurrent;
+  const groupRate = out.groupRate;
   // dA/dt = Σ (du_k/dt − R_eff,k di_k/dt)/L_k, needed for d²I/dt² and the breech-voltage rate
   let driveRate = 0;
   for (let g = 0; g < groups; g++) {
@@ -98,16 +119,13 @@ export function observe(plant: Plant, y: ArrayLike<number>, mode: Mode): Observa
     breechVoltageRate = busRate - plant.feedInductance * currentAcceleration - plant.feedResistance * currentRate;
     muzzleVoltage = (armatureResistanceOf(plant, y) + contactResistanceOf(plant, mode)) * current + arcDropOf(plant, mode);
   }
-  return {
-    current,
-    currentRate,
-    groupCurrent,
-    groupRate,
-    acceleration,
-    accelerationRate,
-    breechVoltage,
-    breechVoltageRate,
-    muzzleVoltage,
-    force,
-  };
+  out.current = current;
+  out.currentRate = currentRate;
+  out.acceleration = acceleration;
+  out.accelerationRate = accelerationRate;
+  out.breechVoltage = breechVoltage;
+  out.breechVoltageRate = breechVoltageRate;
+  out.muzzleVoltage = muzzleVoltage;
+  out.force = force;
+  return out;
 }

@@ -18,7 +18,7 @@ import {
 import { QUADRATURE, ledger, quadratureIntegrands } from '../model/ledger.js';
 import { type EventSpec, crossed, watchedEvents } from '../model/events.js';
 import { applyEvent, isStalled, settle } from '../model/transitions.js';
-import { observe, type Observables } from '../model/observables.js';
+import { emptyObservables, observe, observeInto, type Observables } from '../model/observables.js';
 import { createSolver, OUTCOME_MAX_STEPS, type Dense } from './odex.js';
 import { brentRoot } from './roots.js';
 import { createPeakTracker, createWaveformRecorder } from './record.js';
@@ -119,10 +119,24 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
   const integrand = new Float64Array(QUADRATURE.size);
   const sum = new Float64Array(QUADRATURE.size);
 
+  // Buffers reused by every step of the shot (a shot allocates per restart, not per step or per sample): slot 0
+  // holds the state at the start of a step, slots 1…SAMPLES_PER_STEP its samples, the last an event's instant;
+  // each slot has its observables and event-function values.
+  const slots = SAMPLES_PER_STEP + 2;
+  const states: number[][] = Array.from({ length: slots }, () => new Array<number>(core).fill(0));
+  const seen: Observables[] = Array.from({ length: slots }, () => emptyObservables(plant.groups));
+  const values: Float64Array[] = Array.from({ length: slots }, () => new Float64Array(0));
+  const times = new Float64Array(slots);
+  /** the dense state at a root-finding iterate, and its observables */
+  const probe = new Array<number>(core).fill(0);
+  const probeSeen = emptyObservables(plant.groups);
+  const qStep = new Float64Array(QUADRATURE.size);
+
   /** Count and record the state at an event instant; called on both sides of every event. */
+  const instantSeen = emptyObservables(plant.groups);
   const instant = () => {
     const was = enter('recording');
-    const o = observe(plant, y, mode);
+    const o = observeInto(plant, y, mode, instantSeen);
     tracker.observePoint(t, y, o);
     recorder?.record(t, y, q, mode, o);
     enter(was);
@@ -170,25 +184,54 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       return s;
     };
     let located: Located | null = null;
-    let previous = y.slice();
+    // the sample slots start each run as the restart state (odex writes only the evolving components)
+    if (values[0]!.length < specCount) for (let k = 0; k < slots; k++) values[k] = new Float64Array(specCount);
+    for (let k = 0; k < slots; k++) copyInto(y, states[k]!);
+    copyInto(y, probe);
     // A function that has just crossed sits at ~0 at the restart; count it as on its far side so rounding
     // cannot make it fire again at the same instant.
-    let previousValues = specs.map((spec) => {
-      const value = spec.value(t, previous);
-      if (!justFired.has(eventKey(spec))) return value;
-      return spec.direction === 'down' ? Math.min(value, 0) : Math.max(value, Number.MIN_VALUE);
-    });
+    for (let n = 0; n < specCount; n++) {
+      const spec = specs[n]!;
+      const value = spec.value(t, states[0]!);
+      values[0]![n] = !justFired.has(eventKey(spec)) ? value : spec.direction === 'down' ? Math.min(value, 0) : Math.max(value, Number.MIN_VALUE);
+    }
+    /** are seen[0]'s observables those of states[0] (the end of the previous step)? */
+    let startSeen = false;
+    /** odex's dense output of the current step */
+    let odexDense: Dense = () => NaN;
+    const profile = options.profile;
+    /** the state at `time` on the current step's dense output, written into `into` */
+    const stateInto = (time: number, into: number[]): number[] => {
+      const u = time / scale;
+      if (profile) profile.denseEvaluations += dimension;
+      for (let j = 0; j < dimension; j++) into[active[j]!] = odexDense(j, u);
+      return into;
+    };
+    const stateAt = (time: number): number[] => stateInto(time, base.slice());
+    /** ∫ of the quadrature integrands over [a, b] on the dense output, added to `into` */
+    const integrate = (a: number, b: number, into: Float64Array) => {
+      const was = enter('quadrature');
+      const rule = STEP_RULE;
+      sum.fill(0);
+      for (let p = 0; p < rule.nodes.length; p++) {
+        stateInto((a + (b - a) * rule.nodes[p]!), node);
+        quadratureIntegrands(plant, node, mode, integrand);
+        const w = rule.weights[p]!;
+        for (let k = 0; k < QUADRATURE.size; k++) sum[k]! += w * integrand[k]!;
+      }
+      for (let k = 0; k < QUADRATURE.size; k++) into[k]! += (b - a) * sum[k]!;
+      enter(was);
+    };
+    const eventValueAt = (n: number) => {
+      const spec = specs[n]!;
+      return (u: number) => spec.value(u, stateInto(u, probe));
+    };
+    const observeAt = (time: number) => observeInto(plant, stateInto(time, probe), mode, probeSeen);
 
-    const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], odexDense?: Dense): boolean => {
-      if (!odexDense) return true;
+    const observer = (_n: number, tauOld: number, tau: number, yEnd: number[], stepDense?: Dense): boolean => {
+      if (!stepDense) return true;
       enter('events');
-      const profile = options.profile;
-      const dense: Dense = profile
-        ? (j, u) => {
-            profile.denseEvaluations++;
-            return odexDense(j, u);
-          }
-        : odexDense;
+      odexDense = stepDense;
       steps++;
       // a state that is no longer finite cannot be integrated further: stop here and report it (below)
       if (!allFinite(yEnd)) {
@@ -197,46 +240,24 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       }
       const tOld = tauOld * scale;
       const tNew = tau * scale;
-      const stateAt = (time: number): number[] => {
-        const s = base.slice();
-        const u = time / scale;
-        for (let j = 0; j < dimension; j++) s[active[j]!] = dense(j, u);
-        return s;
-      };
-      /** ∫ of the quadrature integrands over [a, b] on the dense output, added to `into` */
-      const integrate = (a: number, b: number, into: Float64Array) => {
-        const was = enter('quadrature');
-        const rule = STEP_RULE;
-        sum.fill(0);
-        for (let p = 0; p < rule.nodes.length; p++) {
-          const u = (a + (b - a) * rule.nodes[p]!) / scale;
-          for (let j = 0; j < dimension; j++) node[active[j]!] = dense(j, u);
-          quadratureIntegrands(plant, node, mode, integrand);
-          const w = rule.weights[p]!;
-          for (let k = 0; k < QUADRATURE.size; k++) sum[k]! += w * integrand[k]!;
-        }
-        for (let k = 0; k < QUADRATURE.size; k++) into[k]! += (b - a) * sum[k]!;
-        enter(was);
-      };
       // sample the step, bracket the first sign change of any event function
-      const times: number[] = [tOld];
-      const states: number[][] = [previous];
-      let values = previousValues;
-      for (let k = 1; k <= SAMPLES_PER_STEP && !located; k++) {
+      times[0] = tOld;
+      let last = 0;
+      for (let k = 1; k <= SAMPLES_PER_STEP; k++) {
         const time = k === SAMPLES_PER_STEP ? tNew : tOld + ((tNew - tOld) * k) / SAMPLES_PER_STEP;
-        const state = k === SAMPLES_PER_STEP ? expand(yEnd) : stateAt(time);
-        const next = new Array<number>(specCount);
+        const state = states[k]!;
+        if (k === SAMPLES_PER_STEP) for (let j = 0; j < dimension; j++) state[active[j]!] = yEnd[j]!;
+        else stateInto(time, state);
+        const before = values[k - 1]!;
+        const next = values[k]!;
         for (let n = 0; n < specCount; n++) next[n] = specs[n]!.value(time, state);
-        const left = times[times.length - 1]!;
+        const left = times[k - 1]!;
         let first = Infinity;
         let firing: { spec: EventSpec; root: number }[] | null = null;
         for (let n = 0; n < specCount; n++) {
           const spec = specs[n]!;
-          if (!crossed(spec, values[n]!, next[n]!)) continue;
-          const root =
-            spec.kind === 'trigger'
-              ? plant.trigger[spec.group]!
-              : brentRoot((u) => spec.value(u, stateAt(u)), left, time, values[n]!, next[n]!);
+          if (!crossed(spec, before[n]!, next[n]!)) continue;
+          const root = spec.kind === 'trigger' ? plant.trigger[spec.group]! : brentRoot(eventValueAt(n), left, time, before[n]!, next[n]!);
           (firing ??= []).push({ spec, root });
           if (root < first) first = root;
         }
@@ -250,33 +271,43 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
             quadratures,
             specs: firing.filter((f) => f.root <= first + together).map((f) => f.spec),
           };
+          // the event's instant takes the slot after the last sample before it
+          copyInto(located.state, states[k]!);
+          times[k] = first;
+          last = k;
           break;
         }
-        times.push(time);
-        states.push(state);
-        values = next;
+        times[k] = time;
+        last = k;
       }
       const found = located as Located | null;
       const end = found ? found.time : tNew;
-      if (found) {
-        times.push(end);
-        states.push(found.state);
-      }
       enter('peaks');
-      trackPeaks(times, states, stateAt);
+      // observables at every point of the step (those at its start were seen as the end of the last step)
+      for (let k = startSeen ? 1 : 0; k <= last; k++) observeInto(plant, states[k]!, mode, seen[k]!);
+      for (let k = 1; k <= last; k++) {
+        tracker.locate(times[k - 1]!, seen[k - 1]!, times[k]!, seen[k]!, observeAt);
+        tracker.observePoint(times[k]!, states[k]!, seen[k]!);
+      }
       // the step odex took, cut or not, is the first guess after a restart (see lastStep); a phase in which
       // nothing moves (waiting for a trigger) takes steps that say nothing about the dynamics to come
       if (!idle) lastStep = tau - tauOld;
-      const qEnd = found ? found.quadratures : q.slice();
-      if (!found) integrate(tOld, tNew, qEnd);
+      if (!found) {
+        qStep.set(q);
+        integrate(tOld, tNew, qStep);
+      }
       enter('recording');
       if (recorder) recordSamples(tOld, end, tNew - tOld, !found, stateAt, integrate);
       enter(found ? 'restart' : 'integration');
       if (found) return false;
-      previous = states[states.length - 1]!;
-      q = qEnd;
-      reached = { t: tNew, y: previous };
-      previousValues = values;
+      // the step's end is the next step's start: rotate the buffers rather than copy them
+      swap(states, 0, last);
+      swap(seen, 0, last);
+      swap(values, 0, last);
+      startSeen = true;
+      q.set(qStep);
+      reached.t = tNew;
+      copyInto(states[0]!, reached.y);
       return true;
     };
 
@@ -319,19 +350,7 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
       }
     };
 
-    /** observables at the start of the next step (the end of the last one), so each point is observed once */
-    let startSeen: Observables | null = null;
-    const trackPeaks = (times: number[], states: number[][], stateAt: (time: number) => number[]) => {
-      const seen: Observables[] = states.map((s, k) => (k === 0 && startSeen ? startSeen : observe(plant, s, mode)));
-      startSeen = seen[seen.length - 1]!;
-      const at = (time: number) => observe(plant, stateAt(time), mode);
-      for (let k = 1; k < times.length; k++) {
-        tracker.locate(times[k - 1]!, seen[k - 1]!, times[k]!, seen[k]!, at);
-        tracker.observePoint(times[k]!, states[k]!, seen[k]!);
-      }
-    };
-
-    reached = { t, y };
+    reached = { t, y: y.slice() };
     let blownUp: { t: number; y: number[] } | null = null;
     const solver = createSolver(dimension);
     solver.denseOutput = true;
@@ -431,6 +450,16 @@ function afterExit(plant: Plant, y: number[], mode: Mode, magnetic: number): num
     capacitors += 0.5 * plant.capacitance[g]! * v * v;
   }
   return magnetic + capacitors;
+}
+
+function copyInto(from: ArrayLike<number>, to: number[]): void {
+  for (let c = 0; c < from.length; c++) to[c] = from[c]!;
+}
+
+function swap<T>(list: T[], a: number, b: number): void {
+  const held = list[a]!;
+  list[a] = list[b]!;
+  list[b] = held;
 }
 
 const eventKey = (spec: EventSpec) => `${spec.kind}:${spec.group}`;
