@@ -163,7 +163,7 @@ for (const file of demos) {
 }
 
 console.log('');
-console.log(`whole process, median of ${CLI_RUNS}: node bin/railpulse.js run <demo> --json (bundled CLI, dist/railpulse.mjs)`);
+console.log(`whole process, median of ${CLI_RUNS}: node bin/railpulse.js run <demo> --json (bundled CLI: dist/railpulse.mjs runs dist/railpulse-cli.cjs through its V8 code cache, made by the first run)`);
 const cliHeader = [pad('scenario', 24), pad('--no-report s', 14), pad('(cpu s)', 8), pad('with report s', 14), pad('(cpu s)', 8)].join(' ');
 console.log(cliHeader);
 console.log('-'.repeat(cliHeader.length));

@@ -3,16 +3,40 @@
 // (dist/design-app.js), which `railpulse design` inlines into its page.
 import { build } from 'esbuild';
 import { builtinModules } from 'node:module';
+import { createHash } from 'node:crypto';
+import { readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 
 const banner = {
   js: "import { createRequire as __railpulseCreateRequire } from 'node:module'; const require = __railpulseCreateRequire(import.meta.url);",
 };
-const entries = [
-  { in: 'src/cli/main.ts', out: 'railpulse' },
-  { in: 'src/study/worker.ts', out: 'sweep-worker' },
-];
+// The CLI as CommonJS, run by dist/railpulse.mjs through V8's code cache (scripts/cli-loader.mjs); import.meta.url
+// (worker and package paths) becomes the bundle's own file URL.
 await build({
-  entryPoints: entries,
+  entryPoints: { 'railpulse-cli': 'src/cli/main.ts' },
+  outdir: 'dist',
+  outExtension: { '.js': '.cjs' },
+  bundle: true,
+  platform: 'node',
+  format: 'cjs',
+  target: 'node20',
+  banner: { js: 'var __railpulseModuleUrl = require("node:url").pathToFileURL(__filename).href;' },
+  sourcemap: false,
+  minify: false,
+  legalComments: 'inline',
+  logLevel: 'warning',
+  external: ['playwright-core'],
+  // the unit library is loaded on first use from its own file beside the bundle (src/units/unitLibrary.ts)
+  define: { RAILPULSE_BUNDLED_UNIT_LIBRARY: JSON.stringify('./unit-library.cjs'), 'import.meta.url': '__railpulseModuleUrl' },
+});
+const digest = createHash('sha256').update(readFileSync('dist/railpulse-cli.cjs')).digest('hex').slice(0, 16);
+const cacheName = `railpulse-cli.${digest}.v8-cache`;
+for (const name of readdirSync('dist')) if (name.endsWith('.v8-cache') && name !== cacheName) rmSync(join('dist', name), { force: true });
+writeFileSync('dist/railpulse.mjs', readFileSync('scripts/cli-loader.mjs', 'utf8').replace('__RAILPULSE_CACHE_NAME__', cacheName));
+
+// The study worker, as an ES module.
+await build({
+  entryPoints: { 'sweep-worker': 'src/study/worker.ts' },
   outdir: 'dist',
   outExtension: { '.js': '.mjs' },
   bundle: true,
@@ -24,8 +48,6 @@ await build({
   minify: false,
   legalComments: 'inline',
   logLevel: 'warning',
-  external: ['playwright-core'],
-  // the unit library is loaded on first use from its own file beside the bundle (src/units/unitLibrary.ts)
   define: { RAILPULSE_BUNDLED_UNIT_LIBRARY: JSON.stringify('./unit-library.cjs') },
 });
 // mathjs's `unit` alone, as CommonJS so the synchronous scenario loaders can require it when a value needs it

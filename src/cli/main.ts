@@ -89,4 +89,5 @@ endQuietlyOnClosedPipe(process.stdout);
 endQuietlyOnClosedPipe(process.stderr);
 process.on('uncaughtException', handle);
 process.on('unhandledRejection', handle);
-await main(process.argv);
+// not awaited at the top level: the CLI is bundled as CommonJS (scripts/build.mjs); main() reports its own errors
+void main(process.argv);
