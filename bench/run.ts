@@ -10,11 +10,29 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { loadScenarioFile } from '../src/scenario/load.js';
-import { runShot } from '../src/solve/shot.js';
-import type { Scenario } from '../src/scenario/types.js';
-import type { Shot } from '../src/solve/types.js';
-import { PROFILE_PHASES, createProfile } from '../src/solve/profile.js';
+import { build } from 'esbuild';
+import type { ShotTimerReport } from './shot-timer.js';
+import { PROFILE_PHASES } from '../src/solve/profile.js';
+
+// The in-process timings run bench/shot-timer.ts, bundled as the CLI and the sweep workers are, one process per demo.
+const TIMER = 'dist/bench-shot-timer.mjs';
+await build({
+  entryPoints: ['bench/shot-timer.ts'],
+  outfile: TIMER,
+  bundle: true,
+  platform: 'node',
+  format: 'esm',
+  target: 'node20',
+  banner: { js: "import { createRequire as __benchCreateRequire } from 'node:module'; const require = __benchCreateRequire(import.meta.url);" },
+  logLevel: 'warning',
+});
+const PHASES = PROFILE_PHASES;
+
+function timeDemo(file: string): ShotTimerReport {
+  const run = spawnSync(process.execPath, [TIMER, file], { encoding: 'utf8' });
+  if (run.status !== 0) throw new Error(`shot timer failed on ${file}: ${run.stderr}`);
+  return JSON.parse(run.stdout) as ShotTimerReport;
+}
 
 const SCENARIO_DIR = 'scenarios';
 const CLI_RUNS = Number(process.env.RAILPULSE_BENCH_CLI_RUNS ?? 11);
@@ -23,35 +41,11 @@ const TARGET_SHOT_MS = 0.25;
 const TARGET_SHOT_SCENARIO = 'staggered-bank';
 const TARGET_PROCESS_S = 0.25;
 
-interface Timing {
-  /** median wall time per shot, ms */
-  wall: number;
-  /** CPU time per shot over the timed shots, ms */
-  cpu: number;
-  shot: Shot;
-}
-
 const median = (values: number[]): number => {
   const sorted = values.slice().sort((a, b) => a - b);
   const mid = sorted.length >> 1;
   return sorted.length % 2 ? sorted[mid]! : 0.5 * (sorted[mid - 1]! + sorted[mid]!);
 };
-
-/** Time shots until both a minimum count and a minimum duration are reached, after a warm-up. */
-function timeShots(scenario: Scenario, waveforms: boolean, warmup: number, count: number, seconds: number): Timing {
-  let shot = runShot(scenario, { waveforms });
-  for (let k = 1; k < warmup; k++) shot = runShot(scenario, { waveforms });
-  const times: number[] = [];
-  const cpuStart = process.cpuUsage();
-  const start = performance.now();
-  while (times.length < count || performance.now() - start < seconds * 1000) {
-    const t0 = performance.now();
-    shot = runShot(scenario, { waveforms });
-    times.push(performance.now() - t0);
-  }
-  const cpu = process.cpuUsage(cpuStart);
-  return { wall: median(times), cpu: (cpu.user + cpu.system) / 1000 / times.length, shot };
-}
 
 /** CPU seconds (user + system, all threads) of each timed process, by /usr/bin/time when present. */
 const cliCpu: number[] = [];
@@ -93,7 +87,9 @@ console.log(`railpulse shot benchmark — node ${process.version}, ${cpus().leng
 console.log(`load average at start: ${loadavg().map((l) => l.toFixed(2)).join(' ')} (a busy machine inflates every figure)`);
 console.log('');
 
-let targetShot: Timing | null = null;
+let targetShot: ShotTimerReport['off'] | null = null;
+const reports = new Map<string, ShotTimerReport>();
+for (const file of demos) reports.set(file, timeDemo(join(SCENARIO_DIR, file)));
 const header = [
   pad('scenario', 24),
   pad('off ms', 9),
@@ -106,14 +102,11 @@ const header = [
   pad('restarts', 9),
   pad('samples', 8),
 ].join(' ');
-console.log('in-process, one core: median per shot; "off" = waveforms off (as sweeps run), "on" = with waveforms');
+console.log('in-process, one core, the bundled code (as the CLI and the sweep workers run it), a fresh process per demo: median per shot; "off" = waveforms off (as sweeps run), "on" = with waveforms');
 console.log(header);
 console.log('-'.repeat(header.length));
 for (const file of demos) {
-  const { scenario } = loadScenarioFile(join(SCENARIO_DIR, file));
-  const off = timeShots(scenario, false, 50, 300, 2);
-  const on = timeShots(scenario, true, 5, 30, 2);
-  const stats = off.shot.stats;
+  const { off, on } = reports.get(file)!;
   if (file === `${TARGET_SHOT_SCENARIO}.json`) targetShot = off;
   console.log(
     [
@@ -123,41 +116,36 @@ for (const file of demos) {
       pad((1000 / off.wall).toFixed(0), 9),
       pad(ms(on.wall), 9),
       pad(ms(on.cpu), 9),
-      pad(String(stats.rhsEvaluations), 10),
-      pad(String(stats.steps), 6),
-      pad(String(stats.restarts), 9),
-      pad(String(on.shot.waveforms?.t.length ?? 0), 8),
+      pad(String(off.stats.rhsEvaluations), 10),
+      pad(String(off.stats.steps), 6),
+      pad(String(off.stats.restarts), 9),
+      pad(String(on.samples), 8),
     ].join(' '),
   );
 }
 
 if (targetShot) {
-  const t = targetShot as Timing;
+  const t = targetShot as ShotTimerReport['off'];
   console.log(`target: ${TARGET_SHOT_SCENARIO}, waveforms off, ≤ ${TARGET_SHOT_MS} ms per shot in-process on one core; measured ${ms(t.wall)} ms (cpu ${ms(t.cpu)} ms): ${t.wall <= TARGET_SHOT_MS ? 'met' : 'missed'}`);
 }
 
 // Where the time of a shot goes: the same shots with the opt-in profile (runShot's `profile` option). The clock
-// reads inflate the total somewhat, so the phases are shown as shares of the profiled time.
+// reads inflate the total somewhat, so the phases are shown as shares of the profiled time. "integration" is odex's
+// own work (steps, extrapolation tables, dense-output coefficients); "rhs" the model's right-hand side it calls.
 console.log('');
-console.log('where a shot goes (waveforms off; profiled shots, shares of the profiled time; "dense" = dense-output evaluations per shot)');
-const phaseHeader = [pad('scenario', 24), pad('prof ms', 8), ...PROFILE_PHASES.map((p) => pad(p, p.length < 8 ? 8 : p.length + 1)), pad('dense', 7), pad('rhs/step', 9)].join(' ');
+console.log('where a shot goes (waveforms off; profiled shots, shares of the profiled time; "integration" = odex itself, "rhs" = the model it calls; "dense" = dense-output evaluations per shot)');
+const phaseHeader = [pad('scenario', 24), pad('prof ms', 8), ...PHASES.map((p) => pad(p, p.length < 8 ? 8 : p.length + 1)), pad('dense', 7), pad('rhs/step', 9)].join(' ');
 console.log(phaseHeader);
 console.log('-'.repeat(phaseHeader.length));
 for (const file of demos) {
-  const { scenario } = loadScenarioFile(join(SCENARIO_DIR, file));
-  for (let k = 0; k < 30; k++) runShot(scenario, { waveforms: false, profile: createProfile() });
-  const profile = createProfile();
-  let shot = runShot(scenario, { waveforms: false, profile });
-  const start = performance.now();
-  while (profile.shots < 200 || performance.now() - start < 1000) shot = runShot(scenario, { waveforms: false, profile });
-  const total = PROFILE_PHASES.reduce((sum, p) => sum + profile.ms[p], 0);
+  const { profile } = reports.get(file)!;
   console.log(
     [
       pad(file.replace(/\.json$/, ''), 24),
-      pad(ms(total / profile.shots), 8),
-      ...PROFILE_PHASES.map((p) => pad(`${((100 * profile.ms[p]) / total).toFixed(1)} %`, p.length < 8 ? 8 : p.length + 1)),
-      pad((profile.denseEvaluations / profile.shots).toFixed(0), 7),
-      pad((shot.stats.rhsEvaluations / Math.max(1, shot.stats.steps)).toFixed(1), 9),
+      pad(ms(profile.ms), 8),
+      ...PHASES.map((p) => pad(`${(100 * (profile.shares[p] ?? 0)).toFixed(1)} %`, p.length < 8 ? 8 : p.length + 1)),
+      pad(profile.dense.toFixed(0), 7),
+      pad(profile.rhsPerStep.toFixed(1), 9),
     ].join(' '),
   );
 }

@@ -2,14 +2,15 @@
  * Opt-in timing of where a shot's time goes, for the benchmark. Off (no profile passed to runShot), every hook
  * is one shared no-op function, so a plain shot pays nothing measurable; on, each phase boundary reads the clock.
  *
- * Phases: `setup` (plant, scaling), `integration` (inside odex: its steps and the right-hand side), `events`
+ * Phases: `setup` (plant, scaling), `integration` (odex's own work: its steps, extrapolation tables and dense-output
+ * coefficients), `rhs` (the model's right-hand side, called by odex), `events`
  * (sampling event functions on the dense output, bracketing, root finding), `peaks` (running maxima and their
  * location on the dense output), `quadrature` (Gauss–Legendre sums of losses, action and impulse), `recording`
  * (waveform samples and event-instant records), `restart` (between odex runs: applying events, new solver),
  * `finish` (ledger and results).
  */
 
-export const PROFILE_PHASES = ['setup', 'integration', 'events', 'peaks', 'quadrature', 'recording', 'restart', 'finish'] as const;
+export const PROFILE_PHASES = ['setup', 'integration', 'rhs', 'events', 'peaks', 'quadrature', 'recording', 'restart', 'finish'] as const;
 export type ProfilePhase = (typeof PROFILE_PHASES)[number];
 
 export interface ShotProfile {

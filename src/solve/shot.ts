@@ -173,9 +173,11 @@ export function runShot(scenario: Scenario, options: RunOptions = {}): Shot {
     // odex 2.0.4 copies the returned array into its own buffer at once (its `F` wrapper), so one buffer serves
     // every call.
     const rhs = (_tau: number, reduced: number[]): number[] => {
+      const was = enter('rhs');
       for (let j = 0; j < dimension; j++) full[active[j]!] = reduced[j]!;
       derivativesInto(plant, full, mode, rates);
       for (let j = 0; j < dimension; j++) reducedRates[j] = rates[active[j]!]! * scale;
+      enter(was);
       return reducedRates;
     };
     const expand = (reduced: ArrayLike<number>): number[] => {
