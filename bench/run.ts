@@ -7,25 +7,15 @@
  * is printed beside the wall time because a busy machine inflates wall time; the load average is printed too.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { build } from 'esbuild';
 import type { ShotTimerReport } from './shot-timer.js';
 import { PROFILE_PHASES } from '../src/solve/profile.js';
+import { buildShotTimer } from './build-timer.js';
 
 // The in-process timings run bench/shot-timer.ts, bundled as the CLI and the sweep workers are, one process per demo.
-const TIMER = 'dist/bench-shot-timer.mjs';
-await build({
-  entryPoints: ['bench/shot-timer.ts'],
-  outfile: TIMER,
-  bundle: true,
-  platform: 'node',
-  format: 'esm',
-  target: 'node20',
-  banner: { js: "import { createRequire as __benchCreateRequire } from 'node:module'; const require = __benchCreateRequire(import.meta.url);" },
-  logLevel: 'warning',
-});
+const TIMER = await buildShotTimer();
 const PHASES = PROFILE_PHASES;
 
 function timeDemo(file: string): ShotTimerReport {
@@ -174,7 +164,34 @@ try {
     if (typeof bare === 'number') worstBare = Math.max(worstBare, bare);
     if (!Number.isNaN(bareCpu)) worstBareCpu = Math.max(worstBareCpu, bareCpu);
   }
+  // What the slow demos spend: the same scenario without its tolerances (no linear propagation: 1 + 4k shots for k
+  // uncertain inputs), and the floor no command can go below (node starting and exiting, the CLI's start-up).
+  console.log('');
+  for (const file of demos) {
+    const raw = JSON.parse(readFileSync(join(SCENARIO_DIR, file), 'utf8')) as Record<string, unknown>;
+    if (!('tolerances' in raw) && !('calibration' in raw)) continue;
+    delete raw.tolerances;
+    delete raw.calibration;
+    const copy = join(reportDir, `without-uncertainty-${file}`);
+    writeFileSync(copy, JSON.stringify(raw));
+    const bare = timeCli(['run', copy, '--json', '--no-report']);
+    console.log(`  ${file.replace(/\.json$/, '')} without its tolerances (no uncertainty shots): ${typeof bare === 'number' ? `${bare.toFixed(3)} s` : bare}`);
+  }
+  const empty = timeProcess(['-e', '0']);
+  const version = timeCli(['--version']);
+  console.log(`  floor: node alone (node -e 0) ${empty.toFixed(3)} s; railpulse --version ${typeof version === 'number' ? version.toFixed(3) : version} s`);
 } finally {
   rmSync(reportDir, { recursive: true, force: true });
 }
 console.log(`target: --no-report ≤ ${TARGET_PROCESS_S} s for every demo; slowest ${worstBare.toFixed(3)} s wall (${worstBare <= TARGET_PROCESS_S ? 'met' : 'missed'}), ${worstBareCpu.toFixed(3)} s CPU; load average now ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+
+/** Median wall time of `node <args>`, in seconds. */
+function timeProcess(args: string[]): number {
+  const times: number[] = [];
+  for (let k = 0; k < CLI_RUNS; k++) {
+    const t0 = performance.now();
+    spawnSync(process.execPath, args);
+    times.push((performance.now() - t0) / 1000);
+  }
+  return median(times);
+}

@@ -4,7 +4,8 @@
  * carry tsx's helpers in every function and closure), and in a fresh process per scenario, as a sweep worker sees
  * one scenario (timing every demo in one process lets the demos before it make the shot code polymorphic).
  *
- *   node dist/bench-shot-timer.mjs <scenario.json>   → one line of JSON
+ *   node dist/bench-shot-timer.mjs <scenario.json> [--off-only]   → one line of JSON
+ * (--off-only: only the waveforms-off timing, for the sweep bench's contention figure)
  */
 import { loadScenarioFile } from '../src/scenario/load.js';
 import { runShot } from '../src/solve/shot.js';
@@ -72,11 +73,15 @@ function profileShots(scenario: Scenario): ShotTimerReport['profile'] {
 
 const file = process.argv[2];
 if (!file) {
-  process.stderr.write('usage: node dist/bench-shot-timer.mjs <scenario.json>\n');
+  process.stderr.write('usage: node dist/bench-shot-timer.mjs <scenario.json> [--off-only]\n');
   process.exit(2);
 }
 const { scenario } = loadScenarioFile(file);
 const off = timeShots(scenario, false, 50, 300, 2);
-const on = timeShots(scenario, true, 5, 30, 2);
-const report: ShotTimerReport = { off, on, profile: profileShots(scenario) };
-process.stdout.write(`${JSON.stringify(report)}\n`);
+if (process.argv.includes('--off-only')) {
+  process.stdout.write(`${JSON.stringify({ off })}\n`);
+} else {
+  const on = timeShots(scenario, true, 5, 30, 2);
+  const report: ShotTimerReport = { off, on, profile: profileShots(scenario) };
+  process.stdout.write(`${JSON.stringify(report)}\n`);
+}

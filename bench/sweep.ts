@@ -5,7 +5,8 @@
  *
  *   node --import tsx bench/sweep.ts [--points 10000] [--rss-points 100000] [--skip-rss]
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
+import { buildShotTimer } from './build-timer.js';
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -86,6 +87,36 @@ console.log(`  ${points} points on ${cores} workers: ${all.toFixed(0)} shots/s (
 console.log(`  ${points} points on 1 worker:  ${one.toFixed(0)} shots/s (median of ${repeats}: ${rates.one.map((r) => r.toFixed(0)).join(', ')})${cpuNote('one')}`);
 const efficiency = all / (one * cores);
 console.log(`  parallel efficiency: ${(100 * efficiency).toFixed(0)} % (speed-up ${(all / one).toFixed(2)}× on ${cores}); target ≥ ${(100 * TARGET_EFFICIENCY).toFixed(0)} %: ${efficiency >= TARGET_EFFICIENCY ? 'met' : 'missed'}; load average now ${load()}`);
+// What limits the efficiency on this machine, measured apart from the sweep: the CPU a one-worker sweep uses beyond
+// one core (its worker's garbage-collector and compiler threads, the main thread), and how much two independent shot
+// loops (separate processes, no sweep code, nothing shared) slow each other when they run at once.
+{
+  const timer = await buildShotTimer();
+  const offWall = (text: string) => (JSON.parse(text) as { off: { wall: number } }).off.wall;
+  const once = () =>
+    new Promise<number>((resolve, reject) => {
+      const child = spawn(process.execPath, [timer, scenarioFile, '--off-only']);
+      let out = '';
+      child.stdout.on('data', (chunk: Buffer) => (out += chunk.toString()));
+      child.on('error', reject);
+      child.on('close', (code) => (code === 0 ? resolve(offWall(out)) : reject(new Error(`shot timer exit ${code}`))));
+    });
+  // alternated, three of each, medians: the machine's load drifts
+  const alones: number[] = [];
+  const pairs: number[] = [];
+  for (let k = 0; k < 3; k++) {
+    alones.push(await once());
+    pairs.push(...(await Promise.all([once(), once()])));
+  }
+  const alone = median(alones);
+  const pair = [median(pairs)];
+  const slowdown = pair[0]! / alone - 1;
+  const oneCores = cpu.one.length ? median(cpu.one) / (1e3 / one) : NaN;
+  console.log(
+    `  limits here: a 1-worker sweep uses ${Number.isNaN(oneCores) ? '?' : oneCores.toFixed(2)} cores; two independent shot loops at once run ${(100 * slowdown).toFixed(0)} % slower each (median ${alone.toFixed(3)} ms a shot alone, ${pair[0]!.toFixed(3)} ms together); ` +
+      `ceiling ≈ 1 / (cores used × (1 + slowdown)) = ${Number.isNaN(oneCores) ? '?' : `${(100 / (oneCores * (1 + slowdown))).toFixed(0)} %`}`,
+  );
+}
 if (!args.includes('--skip-rss')) {
   const big = sweep(rssPoints, cores, 'big', true);
   const rss = big.maxRssKiB !== undefined ? `${(big.maxRssKiB / 1024).toFixed(0)} MiB` : 'not measured (/usr/bin/time missing)';
