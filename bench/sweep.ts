@@ -111,10 +111,14 @@ console.log(`  parallel efficiency: ${(100 * efficiency).toFixed(0)} % (speed-up
   const alone = median(alones);
   const pair = [median(pairs)];
   const slowdown = pair[0]! / alone - 1;
+  // With every core busy, efficiency = 1 / (cores one worker's sweep uses × rise of CPU per point with all workers)
   const oneCores = cpu.one.length ? median(cpu.one) / (1e3 / one) : NaN;
+  const rise = cpu.one.length && cpu.all.length ? median(cpu.all) / median(cpu.one) : NaN;
+  const known = !Number.isNaN(oneCores) && !Number.isNaN(rise);
   console.log(
-    `  limits here: a 1-worker sweep uses ${Number.isNaN(oneCores) ? '?' : oneCores.toFixed(2)} cores; two independent shot loops at once run ${(100 * slowdown).toFixed(0)} % slower each (median ${alone.toFixed(3)} ms a shot alone, ${pair[0]!.toFixed(3)} ms together); ` +
-      `ceiling ≈ 1 / (cores used × (1 + slowdown)) = ${Number.isNaN(oneCores) ? '?' : `${(100 / (oneCores * (1 + slowdown))).toFixed(0)} %`}`,
+    `  where it goes: a 1-worker sweep uses ${known ? oneCores.toFixed(2) : '?'} cores (its worker's garbage-collector and compiler threads, the main thread); ` +
+      `with ${cores} workers each point costs ${known ? `${(100 * (rise - 1)).toFixed(0)} %` : '?'} more CPU; 1 / (${known ? `${oneCores.toFixed(2)} × ${rise.toFixed(2)}` : '?'}) = ${known ? `${(100 / (oneCores * rise)).toFixed(0)} %` : '?'}. ` +
+      `Two bare shot loops in separate processes run ${(100 * slowdown).toFixed(0)} % slower each when together (median ${alone.toFixed(3)} ms a shot alone, ${pair[0]!.toFixed(3)} ms together)`,
   );
 }
 if (!args.includes('--skip-rss')) {
