@@ -31,6 +31,22 @@ describe('paths a study, a fit or a tolerance may not move', () => {
     expect(inertPathProblem(diffusing, 'solver.diffusionRate')).toMatch(/when the file is read/);
   });
 
+  it('geometry and materials are read once, when the file is read: moving them later would change no result', () => {
+    const loaded = loadScenarioFile('scenarios/geometry-shot.json').scenario;
+    for (const path of ['rails.geometry.separation', 'rails.geometry.height', 'rails.material.resistivity', 'armature.geometry.length', 'armature.material.density']) {
+      expect(inertPathProblem(loaded, path), path).toMatch(/when the file is read.*would not change the shot/);
+    }
+    expect(inertPathProblem(loaded, 'rails.geometry.separation')).toMatch(/vary rails\.inductanceGradient/);
+    expect(inertPathProblem(loaded, 'armature.geometry.length')).toMatch(/vary armature\.mass and armature\.resistance/);
+    // what they become is an input: the shot reads it as set
+    for (const path of ['rails.inductanceGradient', 'armature.mass', 'armature.resistance', 'rails.length']) expect(inertPathProblem(loaded, path), path).toBeNull();
+    // a sweep over the rails' separation used to run and give every point the nominal L′ (the same muzzle velocity)
+    const sweep = railpulse(['sweep', 'scenarios/geometry-shot.json', '--vary', 'rails.geometry.separation=10mm:20mm:3', '--out', join(dir, 'geometry-study')]);
+    expect(sweep.status).toBe(2);
+    expect(sweep.stderr.trim().split('\n')).toHaveLength(1);
+    expect(sweep.stderr).toMatch(/--vary: rails\.geometry\.separation is turned into model inputs/);
+  });
+
   it('the strong-shock drag model does not read a drag coefficient', () => {
     const shock = loadScenarioFile(write('shock.json', { ...geometry, drag: { model: 'strong-shock', gasDensity: '1.2 kg/m^3', boreArea: '1.5 cm^2' } })).scenario;
     expect(inertPathProblem(shock, 'drag.dragCoefficient')).toMatch(/not read by the strong-shock/);
