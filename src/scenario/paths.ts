@@ -146,6 +146,9 @@ export function inertPathProblem(scenario: Scenario, path: string): string | nul
     const derived = section === 'rails' ? 'rails.inductanceGradient (and rails.resistanceGradient where R′ is constant)' : 'armature.mass and armature.resistance';
     return `is turned into model inputs when the file is read (${section === 'rails' ? 'L′, R′ and the diffusion cells' : 'the armature\'s mass and resistance'}), so changing it here would not change the shot; vary ${derived} instead, or write one scenario file per ${path.includes('material') ? 'material' : 'geometry'} and compare them`;
   }
+  if (path === 'armature.transition.action') {
+    return 'is worked out from armature.transition.specificAction × contactArea² and not read by the shot: vary one of those';
+  }
   if (path === 'solver.diffusionRate') return "sets up the rails' diffusion cells when the file is read; write it in the scenario file";
   if (path === 'drag.dragCoefficient' && scenario.drag?.model === 'strong-shock') {
     return 'is not read by the strong-shock drag model (its pressure is (γ+1)/2·ρ0·v²: vary drag.heatCapacityRatio or drag.gasDensity)';

@@ -38,6 +38,7 @@ describe('paths a study, a fit or a tolerance may not move', () => {
     }
     expect(inertPathProblem(loaded, 'rails.geometry.separation')).toMatch(/vary rails\.inductanceGradient/);
     expect(inertPathProblem(loaded, 'armature.geometry.length')).toMatch(/vary armature\.mass and armature\.resistance/);
+    expect(inertPathProblem(loaded, 'armature.transition.action')).toMatch(/specificAction × contactArea²/);
     // what they become is an input: the shot reads it as set
     for (const path of ['rails.inductanceGradient', 'armature.mass', 'armature.resistance', 'rails.length']) expect(inertPathProblem(loaded, path), path).toBeNull();
     // a sweep over the rails' separation used to run and give every point the nominal L′ (the same muzzle velocity)
