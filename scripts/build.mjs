@@ -10,21 +10,17 @@ import { join } from 'node:path';
 const banner = {
   js: "import { createRequire as __railpulseCreateRequire } from 'node:module'; const require = __railpulseCreateRequire(import.meta.url);",
 };
+/** What every bundle for Node shares. */
+const forNode = { bundle: true, platform: 'node', target: 'node20', sourcemap: false, minify: false, legalComments: 'inline', logLevel: 'warning' };
 // The CLI as CommonJS, run by dist/railpulse.mjs through V8's code cache (scripts/cli-loader.mjs); import.meta.url
 // (worker and package paths) becomes the bundle's own file URL.
 await build({
+  ...forNode,
   entryPoints: { 'railpulse-cli': 'src/cli/main.ts' },
   outdir: 'dist',
   outExtension: { '.js': '.cjs' },
-  bundle: true,
-  platform: 'node',
   format: 'cjs',
-  target: 'node20',
   banner: { js: 'var __railpulseModuleUrl = require("node:url").pathToFileURL(__filename).href;' },
-  sourcemap: false,
-  minify: false,
-  legalComments: 'inline',
-  logLevel: 'warning',
   external: ['playwright-core'],
   // the unit library is loaded on first use from its own file beside the bundle (src/units/unitLibrary.ts)
   define: { RAILPULSE_BUNDLED_UNIT_LIBRARY: JSON.stringify('./unit-library.cjs'), 'import.meta.url': '__railpulseModuleUrl' },
@@ -36,32 +32,20 @@ writeFileSync('dist/railpulse.mjs', readFileSync('scripts/cli-loader.mjs', 'utf8
 
 // The study worker, as an ES module.
 await build({
+  ...forNode,
   entryPoints: { 'sweep-worker': 'src/study/worker.ts' },
   outdir: 'dist',
   outExtension: { '.js': '.mjs' },
-  bundle: true,
-  platform: 'node',
   format: 'esm',
-  target: 'node20',
   banner,
-  sourcemap: false,
-  minify: false,
-  legalComments: 'inline',
-  logLevel: 'warning',
   define: { RAILPULSE_BUNDLED_UNIT_LIBRARY: JSON.stringify('./unit-library.cjs') },
 });
 // mathjs's `unit` alone, as CommonJS so the synchronous scenario loaders can require it when a value needs it
 await build({
+  ...forNode,
   entryPoints: ['src/units/unit-library-entry.ts'],
   outfile: 'dist/unit-library.cjs',
-  bundle: true,
-  platform: 'node',
   format: 'cjs',
-  target: 'node20',
-  sourcemap: false,
-  minify: false,
-  legalComments: 'inline',
-  logLevel: 'warning',
 });
 
 /**
