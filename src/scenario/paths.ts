@@ -141,12 +141,14 @@ export function inertPathProblem(scenario: Scenario, path: string): string | nul
   if (/^(rails|armature)\.(derived|diffusion)\b/.test(path) || /^heating\b/.test(path)) {
     return 'is derived from the geometry and materials when the file is read, not an input';
   }
-  if (/^(rails|armature)\.(geometry|material)\b/.test(path) || /^materials\b/.test(path)) {
-    const section = path.startsWith('armature') ? 'armature' : 'rails';
+  const loadInput = /^(rails|armature)\.(geometry|material)\b/.exec(path);
+  // (absent from this scenario: the caller's "no such value" says so)
+  if (loadInput && (scenario as unknown as Record<string, Record<string, unknown> | undefined>)[loadInput[1]!]?.[loadInput[2]!] !== undefined) {
+    const section = loadInput[1]!;
     const derived = section === 'rails' ? 'rails.inductanceGradient (and rails.resistanceGradient where R′ is constant)' : 'armature.mass and armature.resistance';
     return `is turned into model inputs when the file is read (${section === 'rails' ? 'L′, R′ and the diffusion cells' : 'the armature\'s mass and resistance'}), so changing it here would not change the shot; vary ${derived} instead, or write one scenario file per ${path.includes('material') ? 'material' : 'geometry'} and compare them`;
   }
-  if (path === 'armature.transition.action') {
+  if (path === 'armature.transition.action' && scenario.armature?.transition) {
     return 'is worked out from armature.transition.specificAction × contactArea² and not read by the shot: vary one of those';
   }
   if (path === 'solver.diffusionRate') return "sets up the rails' diffusion cells when the file is read; write it in the scenario file";

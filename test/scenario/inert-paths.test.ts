@@ -38,7 +38,15 @@ describe('paths a study, a fit or a tolerance may not move', () => {
     }
     expect(inertPathProblem(loaded, 'rails.geometry.separation')).toMatch(/vary rails\.inductanceGradient/);
     expect(inertPathProblem(loaded, 'armature.geometry.length')).toMatch(/vary armature\.mass and armature\.resistance/);
-    expect(inertPathProblem(loaded, 'armature.transition.action')).toMatch(/specificAction × contactArea²/);
+    const transition = loadScenarioFile(
+      write('transition.json', { ...geometry, armature: { ...(geometry.armature as object), transition: { specificAction: 1e12, contactArea: 1e-4, arcDrop: 60 } } }),
+    ).scenario;
+    expect(inertPathProblem(transition, 'armature.transition.action')).toMatch(/specificAction × contactArea²/);
+    expect(inertPathProblem(transition, 'armature.transition.specificAction')).toBeNull();
+    // without the section there is nothing to refuse: the caller's "no such value" answers
+    expect(inertPathProblem(loaded, 'armature.transition.action')).toBeNull();
+    const plain = loadScenarioFile('scenarios/bench-shot.json').scenario;
+    expect(inertPathProblem(plain, 'rails.geometry.height')).toBeNull();
     // what they become is an input: the shot reads it as set
     for (const path of ['rails.inductanceGradient', 'armature.mass', 'armature.resistance', 'rails.length']) expect(inertPathProblem(loaded, path), path).toBeNull();
     // a sweep over the rails' separation used to run and give every point the nominal L′ (the same muzzle velocity)
