@@ -39,6 +39,7 @@ export async function sweepCommand(file: string, flags: SweepFlags): Promise<Swe
   const plan = makeSweepPlan({
     uncertainty: flags.uncertainty ?? false,
     scenario: loaded.scenario,
+    raw: loaded.raw,
     source: { file, sha256: loaded.sha256 },
     vary: flags.vary,
     design: flags.design as DesignKind,

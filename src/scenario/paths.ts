@@ -134,7 +134,12 @@ export function setRawPath(raw: Record<string, unknown>, path: string, value: un
  * some are not read in every configuration; a sweep axis, a fitted parameter or a tolerance on them would change
  * nothing, or something else than the user means. Studies, fits and uncertainty all ask this one function.
  */
-export function inertPathProblem(scenario: Scenario, path: string): string | null {
+/** Rail and armature geometry and materials: read into model inputs when the file is read (see inertPathProblem). */
+export function isReadAtLoad(path: string): boolean {
+  return /^(rails|armature)\.(geometry|material)\b/.test(path);
+}
+
+export function inertPathProblem(scenario: Scenario, path: string, options: { readAgain?: boolean } = {}): string | null {
   if (path === 'rails.resistanceGradient' && scenario.rails?.diffusion) {
     return 'follows current diffusion during the shot here (rails from geometry and material, rails.resistanceModel "diffusion"), and this number is only its uniform-current floor; for a constant R′ to vary, fit or give a tolerance on, set rails.resistanceModel to "quarter-period" or give rails.resistanceGradient as a number without a material';
   }
@@ -142,8 +147,8 @@ export function inertPathProblem(scenario: Scenario, path: string): string | nul
     return 'is derived from the geometry and materials when the file is read, not an input';
   }
   const loadInput = /^(rails|armature)\.(geometry|material)\b/.exec(path);
-  // (absent from this scenario: the caller's "no such value" says so)
-  if (loadInput && (scenario as unknown as Record<string, Record<string, unknown> | undefined>)[loadInput[1]!]?.[loadInput[2]!] !== undefined) {
+  // (absent from this scenario: the caller's "no such value" says so; a sweep reads each point's file again)
+  if (loadInput && !options.readAgain && (scenario as unknown as Record<string, Record<string, unknown> | undefined>)[loadInput[1]!]?.[loadInput[2]!] !== undefined) {
     const section = loadInput[1]!;
     const derived = section === 'rails' ? 'rails.inductanceGradient (and rails.resistanceGradient where R′ is constant)' : 'armature.mass and armature.resistance';
     return `is turned into model inputs when the file is read (${section === 'rails' ? 'L′, R′ and the diffusion cells' : 'the armature\'s mass and resistance'}), so changing it here would not change the shot; vary ${derived} instead, or write one scenario file per ${path.includes('material') ? 'material' : 'geometry'} and compare them`;

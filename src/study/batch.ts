@@ -5,7 +5,8 @@
 import { assessShot } from '../checks/assess.js';
 import type { Scenario } from '../scenario/types.js';
 import type { Shot } from '../solve/types.js';
-import { parsePath, setPath, type PathStep } from '../scenario/paths.js';
+import { isReadAtLoad, parsePath, setPath, setRawPath, type PathStep } from '../scenario/paths.js';
+import { scenarioFromRaw } from '../scenario/load.js';
 import { csvLine, jsonLine, rowObject, studyLayout, type RowLayout } from './rows.js';
 import { HEADLINE_KEYS, type Headline, type RunShot } from './headline.js';
 import { propagateModel } from './propagate.js';
@@ -26,6 +27,8 @@ export interface BatchContext {
    * a point that fails is recorded with its reason
    */
   validate?: boolean;
+  /** the scenario file as written, when a varied path is read at load (see pointScenario) */
+  raw?: Record<string, unknown>;
 }
 
 export interface BatchRequest {
@@ -69,6 +72,29 @@ export function validationProblem(scenario: Scenario, validate: (scenario: Scena
   }
 }
 
+/**
+ * The scenario of one point. Rail and armature geometry and materials are turned into L′, R′, the diffusion cells,
+ * the armature's mass and resistance when a file is read, so with such a path (and `raw`, the file as written) the
+ * point is the file read again with those values (SI numbers, as a file may give them); the other paths are then set
+ * on it. Otherwise a fresh copy of the SI scenario with the values set: the solver must never see another point's
+ * values. Throws InputError when the point's file does not read (its geometry's checks).
+ */
+export function pointScenario(scenario: Scenario, raw: Record<string, unknown> | undefined, paths: readonly string[], steps: readonly PathStep[][], values: ArrayLike<number>): Scenario {
+  const readAgain = raw !== undefined && paths.some(isReadAtLoad);
+  let point: Scenario;
+  if (readAgain) {
+    const copy = structuredClone(raw);
+    paths.forEach((path, d) => {
+      if (isReadAtLoad(path)) setRawPath(copy, path, values[d]!);
+    });
+    point = scenarioFromRaw(copy);
+  } else point = structuredClone(scenario);
+  steps.forEach((step, d) => {
+    if (!readAgain || !isReadAtLoad(paths[d]!)) setPath(point, step, values[d]!);
+  });
+  return point;
+}
+
 export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchRunner {
   const layout = studyLayout(context.scenario, context.paths, context.uncertainty ?? false);
   const steps: PathStep[][] = context.paths.map((path) => parsePath(path)!);
@@ -83,10 +109,17 @@ export function makeBatchRunner(context: BatchContext, runShot: RunShot): BatchR
         const values = request.values.subarray(k * dimensions, (k + 1) * dimensions);
         const invalid = request.invalid[k] ?? null;
         let row;
-        // A fresh copy a point: the solver must never see another point's values.
-        const scenario = invalid === null ? structuredClone(context.scenario) : null;
-        if (scenario) steps.forEach((step, d) => setPath(scenario, step, values[d]!));
-        const problem = invalid ?? (scenario && context.validate ? validationProblem(scenario) : null);
+        let scenario: Scenario | null = null;
+        let readProblem: string | null = null;
+        if (invalid === null) {
+          try {
+            scenario = pointScenario(context.scenario, context.raw, context.paths, steps, values);
+          } catch (error) {
+            if (!(error instanceof InputError)) throw error;
+            readProblem = error.message;
+          }
+        }
+        const problem = invalid ?? readProblem ?? (scenario && context.validate ? validationProblem(scenario) : null);
         if (problem !== null || !scenario) {
           row = rowObject(layout, index, values, null, problem ?? 'invalid point');
         } else {

@@ -6,7 +6,8 @@ import { InputError } from '../core/errors.js';
 import type { Scenario } from '../scenario/types.js';
 import { makeDesign, type DesignKind } from './design.js';
 import { MANIFEST_FORMAT, SHARD_RULE, defaultStudyDir, type ShardSpec, type StudyManifest } from './output.js';
-import { setPath } from '../scenario/paths.js';
+import { isReadAtLoad, setPath } from '../scenario/paths.js';
+import { pointScenario } from './batch.js';
 import { studyLayout } from './rows.js';
 import { parseVaries, type Axis, type DimensionOf } from './spec.js';
 import { bankHazard, type BankHazard } from '../checks/hazard.js';
@@ -29,6 +30,11 @@ export interface SweepChoices {
   studiesRoot?: string;
   /** add the standard uncertainties of the headline results at every point */
   uncertainty?: boolean;
+  /**
+   * the scenario file as written: with it, rail and armature geometry and materials may be varied, each point being
+   * read again from the file with its values (they are turned into L′, R′, mass… when a file is read)
+   */
+  raw?: Record<string, unknown>;
 }
 
 /** `--shard i/n`: 1 ≤ i ≤ n. */
@@ -66,7 +72,7 @@ export function designSafety(scenario: Scenario, axes: readonly Axis[]): BankHaz
 }
 
 export function makeSweepPlan(choices: SweepChoices): SweepPlan {
-  const axes = parseVaries(choices.vary, choices.scenario, choices.dimensionOf);
+  const axes = parseVaries(choices.vary, choices.scenario, choices.dimensionOf, { readAgain: choices.raw !== undefined });
   const design = makeDesign(axes, { kind: choices.design ?? 'grid', samples: choices.samples, seed: choices.seed ?? 1 });
   const shard = choices.shard ?? null;
   if (shard && shard.count > design.count) {
@@ -84,7 +90,8 @@ export function makeSweepPlan(choices: SweepChoices): SweepPlan {
     safety: designSafety(choices.scenario, axes),
   };
   const outDir = choices.out ?? defaultStudyDir(manifest, choices.now ?? new Date(), choices.studiesRoot);
-  return { scenario: choices.scenario, design, manifest, outDir, resume: choices.resume ?? false };
+  const readAgain = choices.raw !== undefined && axes.some((axis) => isReadAtLoad(axis.path));
+  return { scenario: choices.scenario, ...(readAgain ? { raw: choices.raw } : {}), design, manifest, outDir, resume: choices.resume ?? false };
 }
 
 /**
@@ -99,9 +106,13 @@ export function checkAxes(plan: SweepPlan, validate: (scenario: Scenario) => voi
     const values = plan.design.kind === 'grid' && axis.kind === 'list' ? axis.values : [axis.min, axis.max];
     const probe = structuredClone(plan.scenario);
     for (const value of values) {
-      setPath(probe, axis.steps, value);
       try {
-        validate(probe);
+        // a value read at load is checked by reading the file with it (the geometry's own checks, L′ from it)
+        if (plan.raw && isReadAtLoad(axis.path)) pointScenario(plan.scenario, plan.raw, [axis.path], [axis.steps], Float64Array.of(value));
+        else {
+          setPath(probe, axis.steps, value);
+          validate(probe);
+        }
       } catch (error) {
         if (!(error instanceof InputError)) throw error;
         throw new InputError('--vary', `${axis.path} = ${value} (SI) is not allowed: ${error.problem}`);

@@ -42,12 +42,12 @@ function fail(problem: string): never {
 }
 
 /** Parse one `--vary` argument against the scenario it will change. */
-export function parseVary(argument: string, scenario: Scenario, dimensionOf: DimensionOf): Axis {
+export function parseVary(argument: string, scenario: Scenario, dimensionOf: DimensionOf, options: { readAgain?: boolean } = {}): Axis {
   const equals = argument.indexOf('=');
   if (equals < 0) fail(`expected PATH=SPEC (e.g. armature.mass=20g,40g or bank[0].voltage=4kV:10kV:13), got "${argument}"`);
   const path = argument.slice(0, equals).trim();
   const spec = argument.slice(equals + 1).trim();
-  const steps = checkPath(path, scenario);
+  const steps = checkPath(path, scenario, options);
   // A module count is a whole number with no dimension (the loader lists it as an integer, not a quantity).
   const integer = steps[steps.length - 1] === 'count';
   const dimension = integer ? DIMENSIONS.dimensionless : dimensionOf(path);
@@ -61,9 +61,9 @@ export function parseVary(argument: string, scenario: Scenario, dimensionOf: Dim
 }
 
 /** Parse every `--vary`; a path given twice is an error. */
-export function parseVaries(argumentsGiven: readonly string[], scenario: Scenario, dimensionOf: DimensionOf): Axis[] {
+export function parseVaries(argumentsGiven: readonly string[], scenario: Scenario, dimensionOf: DimensionOf, options: { readAgain?: boolean } = {}): Axis[] {
   if (argumentsGiven.length === 0) fail('give at least one --vary PATH=SPEC');
-  const axes = argumentsGiven.map((argument) => parseVary(argument, scenario, dimensionOf));
+  const axes = argumentsGiven.map((argument) => parseVary(argument, scenario, dimensionOf, options));
   const seen = new Set<string>();
   for (const axis of axes) {
     if (seen.has(axis.path)) fail(`${axis.path} is varied twice`);
@@ -72,7 +72,7 @@ export function parseVaries(argumentsGiven: readonly string[], scenario: Scenari
   return axes;
 }
 
-function checkPath(path: string, scenario: Scenario): PathStep[] {
+function checkPath(path: string, scenario: Scenario, options: { readAgain?: boolean }): PathStep[] {
   const steps = parsePath(path);
   if (!steps) fail(`"${path}" is not a scenario path (expected e.g. armature.mass or bank[0].voltage)`);
   // Walk the path so the message names the first step that does not exist.
@@ -92,7 +92,7 @@ function checkPath(path: string, scenario: Scenario): PathStep[] {
     const suggestion = closestPath(path, listNumericPaths(scenario));
     fail(`${path} is not a number in the scenario${suggestion ? ` (did you mean ${suggestion}?)` : ''}`);
   }
-  const inert = inertPathProblem(scenario, path);
+  const inert = inertPathProblem(scenario, path, options);
   if (inert) fail(`${path} ${inert}`);
   return steps;
 }

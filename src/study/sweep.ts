@@ -36,6 +36,8 @@ import { csvHeader, csvLine, studyLayout, UNCERTAINTY_COLUMNS, type RowLayout } 
 export interface SweepPlan {
   /** the base scenario, SI, parsed once in the main thread */
   scenario: Scenario;
+  /** the scenario file as written, when an axis is read at load (geometry, materials): each point reads it again */
+  raw?: Record<string, unknown>;
   design: Design;
   manifest: StudyManifest;
   outDir: string;
@@ -105,7 +107,7 @@ export async function runSweep(plan: SweepPlan, options: SweepOptions = {}): Pro
   const requestedJobs = options.jobs ?? availableParallelism();
   const batchSize = options.batchSize ?? Math.max(1, Math.min(64, Math.ceil(remaining / (requestedJobs * 4))));
   const jobs = Math.max(1, Math.min(requestedJobs, Math.ceil(remaining / batchSize)));
-  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths, uncertainty, validate: options.validatePoints ?? false };
+  const context: BatchContext = { scenario: plan.scenario, paths: layout.paths, uncertainty, validate: options.validatePoints ?? false, ...(plan.raw ? { raw: plan.raw } : {}) };
   const runner = (options.makeRunner ?? ((ctx, n) => makeWorkerPool(defaultWorkerUrl(), ctx, n)))(context, jobs);
   const progress = options.progress?.(remaining) ?? silentProgress;
   const writer = openPointsWriter(plan.outDir);

@@ -49,11 +49,17 @@ describe('paths a study, a fit or a tolerance may not move', () => {
     expect(inertPathProblem(plain, 'rails.geometry.height')).toBeNull();
     // what they become is an input: the shot reads it as set
     for (const path of ['rails.inductanceGradient', 'armature.mass', 'armature.resistance', 'rails.length']) expect(inertPathProblem(loaded, path), path).toBeNull();
-    // a sweep over the rails' separation used to run and give every point the nominal L′ (the same muzzle velocity)
-    const sweep = railpulse(['sweep', 'scenarios/geometry-shot.json', '--vary', 'rails.geometry.separation=10mm:20mm:3', '--out', join(dir, 'geometry-study')]);
-    expect(sweep.status).toBe(2);
-    expect(sweep.stderr.trim().split('\n')).toHaveLength(1);
-    expect(sweep.stderr).toMatch(/--vary: rails\.geometry\.separation is turned into model inputs/);
+    // a sweep reads each point's file again (test/study/geometry-sweep.test.ts); a fit and a tolerance refuse them
+    expect(inertPathProblem(loaded, 'rails.geometry.separation', { readAgain: true })).toBeNull();
+    const fit = railpulse(['fit', 'scenarios/geometry-shot.json', join(dir, 'none.csv'), '--free', 'rails.geometry.separation']);
+    expect(fit.status).toBe(2);
+    expect(fit.stderr.trim().split('\n')).toHaveLength(1);
+    expect(fit.stderr).toMatch(/--free: rails\.geometry\.separation is turned into model inputs/);
+    const tolerance = write('geometry-tolerance.json', { ...geometry, tolerances: [{ path: 'rails.geometry.height', normal: '0.1 mm' }] });
+    const run = railpulse(['run', tolerance, '--json', '--no-report']);
+    expect(run.status).toBe(2);
+    expect(run.stderr.trim().split('\n')).toHaveLength(1);
+    expect(run.stderr).toMatch(/rails\.geometry\.height: is turned into model inputs/);
   });
 
   it('the strong-shock drag model does not read a drag coefficient', () => {
